@@ -3,6 +3,7 @@ package mesh
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 
 	"github.com/hemiray/hemiray/geometry"
@@ -69,8 +70,14 @@ func Check(m *Mesh) Report {
 			return
 		}
 		f := Finding{Check: check, Count: len(facets), Message: fmt.Sprintf(msg, len(facets))}
-		for _, i := range facets[:min(len(facets), maxExamples)] {
-			f.Examples = append(f.Examples, m.Where(i))
+		for _, i := range facets {
+			if len(f.Examples) == maxExamples {
+				break
+			}
+			// Facets of one OBJ polygon share a line; list each place once.
+			if w := m.Where(i); !slices.Contains(f.Examples, w) {
+				f.Examples = append(f.Examples, w)
+			}
 		}
 		r.Findings = append(r.Findings, f)
 	}
@@ -112,9 +119,9 @@ func Check(m *Mesh) Report {
 			seen[key] = int32(f)
 		}
 	}
-	add("non-finite", "%d facets have NaN or infinite coordinates", nonFinite)
-	add("degenerate", "%d facets have zero or near-zero area (slivers collapsed to a line or point)", degenerate)
-	add("duplicate", "%d facets repeat another facet's corners (double-sided export or a copied part?)", duplicate)
+	add("non-finite", "%d facet(s) have NaN or infinite coordinates", nonFinite)
+	add("degenerate", "%d facet(s) have zero or near-zero area (slivers collapsed to a line or point)", degenerate)
+	add("duplicate", "%d facet(s) repeat another facet's corners (double-sided export or a copied part?)", duplicate)
 
 	// Edge use, over the whole model and within each surface.
 	model := edgeUse(m, pos, nil)
@@ -133,9 +140,9 @@ func Check(m *Mesh) Report {
 	sort.Ints(open)
 	sort.Ints(nonManifold)
 	sort.Ints(flipped)
-	add("open-edges", "%d edges belong to only one facet: the model is open (holes, gaps or an open shell)", open)
-	add("non-manifold", "%d edges are shared by more than two facets", nonManifold)
-	add("winding", "%d edges join neighbours with opposite winding (some normals are flipped)", flipped)
+	add("open-edges", "%d edge(s) belong to only one facet: the model is open (holes, gaps or an open shell)", open)
+	add("non-manifold", "%d edge(s) are shared by more than two facets", nonManifold)
+	add("winding", "%d edge(s) join neighbours with opposite winding (some normals are flipped)", flipped)
 
 	var zero []int
 	for s := range m.Surfaces {
@@ -156,7 +163,7 @@ func Check(m *Mesh) Report {
 		}
 		r.Surfaces = append(r.Surfaces, sr)
 	}
-	add("zero-area-surface", "%d surfaces have zero total area", zero)
+	add("zero-area-surface", "%d surface(s) have zero total area", zero)
 	return r
 }
 

@@ -61,9 +61,9 @@ func TestReadTestdata(t *testing.T) {
 		{"heater_plate_binary.stl", LoadOptions{Unit: Millimetre}, []wantSurface{{"heater_plate exported as binary", 8, 2e-6}}, 8},
 		// Two solid blocks, each its own surface: 0.4×0.3 and 0.4×0.25.
 		{"cabinet_multi.stl", LoadOptions{}, []wantSurface{{"floor", 2, 0.12}, {"back_wall", 2, 0.1}}, 6},
-		// Triangle before any group (area 1), concave L hexagon (area 3), quad lid (area 4).
-		{"duct_bend.obj", LoadOptions{}, []wantSurface{{"duct_bend", 1, 1}, {"end_plate", 4, 3}, {"lid", 2, 4}}, 0},
-		{"duct_bend.obj", LoadOptions{GroupByMaterial: true, Unit: Inch}, []wantSurface{{"duct_bend", 1, 0.0254 * 0.0254}, {"steel", 4, 3 * 0.0254 * 0.0254}, {"painted", 2, 4 * 0.0254 * 0.0254}}, 0},
+		// Triangle before any group (area 0.5), concave L hexagon (area 3), quad lid (area 4).
+		{"duct_bend.obj", LoadOptions{}, []wantSurface{{"duct_bend", 1, 0.5}, {"end_plate", 4, 3}, {"lid", 2, 4}}, 0},
+		{"duct_bend.obj", LoadOptions{GroupByMaterial: true, Unit: Inch}, []wantSurface{{"duct_bend", 1, 0.5 * 0.0254 * 0.0254}, {"steel", 4, 3 * 0.0254 * 0.0254}, {"painted", 2, 4 * 0.0254 * 0.0254}}, 0},
 		// 3 unit quads of a 2×2 patch: outline of an L has 8 unit edges.
 		{"scan_open.obj", LoadOptions{Unit: Centimetre}, []wantSurface{{"patch", 6, 3e-4}}, 8},
 	}
@@ -101,8 +101,8 @@ func TestOBJIgnoredAndNormals(t *testing.T) {
 			t.Errorf("facet %d normal %v, want +z", f, n)
 		}
 	}
-	if got := m.Where(int(m.Surfaces[2].Facets[0])); got != "../testdata/duct_bend.obj:27" {
-		t.Errorf("Where = %q, want line 27", got)
+	if got := m.Where(int(m.Surfaces[2].Facets[0])); got != "../testdata/duct_bend.obj:30" {
+		t.Errorf("Where = %q, want line 30", got)
 	}
 }
 
