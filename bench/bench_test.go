@@ -1,0 +1,49 @@
+package main
+
+import (
+	"testing"
+
+	"github.com/hemiray/hemiray/raytrace/bvh"
+	"github.com/hemiray/hemiray/raytrace/sample"
+)
+
+// BenchmarkBuild measures the single-thread BVH build of each workload.
+func BenchmarkBuild(b *testing.B) {
+	for _, w := range workloads {
+		b.Run(w.name, func(b *testing.B) {
+			m, err := w.make()
+			if err != nil {
+				b.Fatal(err)
+			}
+			b.ReportAllocs()
+			for b.Loop() {
+				bvh.Build(m.Vertices, m.Facets, bvh.Options{Threads: 1})
+			}
+			b.ReportMetric(float64(len(m.Facets))*float64(b.N)/b.Elapsed().Seconds()/1e6, "Mfacets/s")
+		})
+	}
+}
+
+// BenchmarkIntersect measures single-thread throughput of the engine's rays,
+// generation included.
+func BenchmarkIntersect(b *testing.B) {
+	for _, w := range workloads {
+		b.Run(w.name, func(b *testing.B) {
+			m, err := w.make()
+			if err != nil {
+				b.Fatal(err)
+			}
+			s := newScene(m, 0)
+			st := sample.NewStream(1, 0, 0)
+			var t tally
+			const batch = 1000
+			b.ReportAllocs()
+			b.ResetTimer()
+			for b.Loop() {
+				s.trace(batch, st, &t)
+				st.Skip(5 * batch)
+			}
+			b.ReportMetric(float64(batch)*float64(b.N)/b.Elapsed().Seconds(), "rays/s")
+		})
+	}
+}

@@ -1,0 +1,129 @@
+package main
+
+import (
+	"flag"
+	"fmt"
+	"log"
+	"math"
+	"os"
+	"runtime"
+	"sort"
+	"sync"
+	"text/tabwriter"
+	"time"
+
+	"github.com/hemiray/hemiray/raytrace/bvh"
+	"github.com/hemiray/hemiray/raytrace/sample"
+)
+
+type result struct {
+	name                string
+	facets              int
+	build1, buildAll    time.Duration
+	bytesPerFacet       float64
+	mrays1, mraysAll    float64
+	threads             int
+	sahCost             float64
+	depth               int
+	squaresF, squaresSE float64
+}
+
+func main() {
+	log.SetFlags(0)
+	log.SetPrefix("bench: ")
+	which := flag.String("workload", "all", "workload: squares, box, room, sphere or all")
+	rays := flag.Int("rays", 2000000, "rays per throughput measurement")
+	threads := flag.Int("threads", runtime.GOMAXPROCS(0), "threads for the multi-thread measurement")
+	flag.Parse()
+
+	var results []result
+	found := false
+	for _, w := range workloads {
+		if *which != "all" && *which != w.name {
+			continue
+		}
+		found = true
+		m, err := w.make()
+		if err != nil {
+			log.Fatalf("%s: %v", w.name, err)
+		}
+		r := result{name: w.name, facets: len(m.Facets), threads: *threads}
+		t0 := time.Now()
+		bvh.Build(m.Vertices, m.Facets, bvh.Options{Threads: 1})
+		r.build1 = time.Since(t0)
+		runtime.GC()
+		t0 = time.Now()
+		s := newScene(m, *threads)
+		r.buildAll = time.Since(t0)
+		r.bytesPerFacet = float64(meshBytes(m)+s.tree.Bytes()) / float64(len(m.Facets))
+		r.sahCost, r.depth = s.tree.Stats.SAHCost, s.tree.Stats.MaxDepth
+
+		// Warm up, then measure one thread and all threads.
+		var warm tally
+		s.trace(min(*rays/10, 100000), sample.NewStream(1, -1, 0), &warm)
+		r.mrays1 = measure(s, *rays, 1)
+		r.mraysAll = measure(s, *rays, *threads)
+		if w.name == "squares" {
+			r.squaresF, r.squaresSE = squaresViewFactor(s, *rays)
+		}
+		results = append(results, r)
+		fmt.Fprintf(os.Stderr, "%s done\n", w.name)
+	}
+	if !found {
+		log.Fatalf("unknown workload %q (squares, box, room, sphere or all)", *which)
+	}
+	tw := tabwriter.NewWriter(os.Stdout, 0, 4, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "workload\tfacets\tbuild 1t [s]\tbuild all [s]\tbytes/facet\tSAH cost\tdepth\tMrays/s 1t\tMrays/s all\tthreads\tefficiency\t")
+	for _, r := range results {
+		fmt.Fprintf(tw, "%s\t%d\t%.3f\t%.3f\t%.1f\t%.1f\t%d\t%.3f\t%.3f\t%d\t%.2f\t\n", r.name, r.facets,
+			r.build1.Seconds(), r.buildAll.Seconds(), r.bytesPerFacet, r.sahCost, r.depth, r.mrays1, r.mraysAll, r.threads, r.mraysAll/(r.mrays1*float64(r.threads)))
+	}
+	tw.Flush()
+	for _, r := range results {
+		if r.name == "squares" {
+			// Directly opposed unit squares at unit spacing: F = 0.19982
+			// (Howell's catalogue of configuration factors, parallel opposed
+			// rectangles; value from memory).
+			fmt.Printf("squares: F(bottom→top) = %.5f ± %.5f (1σ), reference 0.19982, deviation %.1fσ\n",
+				r.squaresF, r.squaresSE, (r.squaresF-0.19982)/r.squaresSE)
+		}
+	}
+	fmt.Println()
+	for _, r := range results {
+		fmt.Printf("workload=%s facets=%d build_s=%.3f bytes_per_facet=%.1f mrays_1t=%.3f mrays_all=%.3f threads=%d efficiency=%.2f\n",
+			r.name, r.facets, r.build1.Seconds(), r.bytesPerFacet, r.mrays1, r.mraysAll, r.threads, r.mraysAll/(r.mrays1*float64(r.threads)))
+	}
+}
+
+// measure returns the median Mrays/s of three runs of n rays on threads.
+func measure(s *scene, n, threads int) float64 {
+	r := []float64{measureOnce(s, n, threads), measureOnce(s, n, threads), measureOnce(s, n, threads)}
+	sort.Float64s(r)
+	return r[1]
+}
+
+func measureOnce(s *scene, n, threads int) float64 {
+	var wg sync.WaitGroup
+	start := time.Now()
+	for k := range threads {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			var t tally
+			s.trace(n/threads, sample.NewStream(7, int64(k), 0), &t)
+		}()
+	}
+	wg.Wait()
+	return float64(n/threads*threads) / time.Since(start).Seconds() / 1e6
+}
+
+// squaresViewFactor estimates F from the bottom square to the top one.
+func squaresViewFactor(s *scene, n int) (f, se float64) {
+	var t tally
+	s.trace(n, sample.NewStream(99, 0, 0), &t)
+	bottom := s.m.SurfaceIndex("bottom")
+	top := s.m.SurfaceIndex("top")
+	nb := float64(t.fromSurface[bottom])
+	f = float64(t.pair[bottom][top]) / nb
+	return f, math.Sqrt(f * (1 - f) / nb)
+}
