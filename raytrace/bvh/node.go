@@ -10,10 +10,10 @@ import "math"
 //	Axis      uint8        split axis of an inner node (0, 1, 2)
 type Node struct {
 	Bounds [6]float32
-	Offset   int32
-	Count    uint16
-	Axis     uint8
-	_        uint8
+	Offset int32
+	Count  uint16
+	Axis   uint8
+	_      uint8
 }
 
 // triRef is a triangle in leaf order: vertex indices and the facet id.
