@@ -47,3 +47,26 @@ func BenchmarkIntersect(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkIntersectBatch is BenchmarkIntersect with interleaved traversal.
+func BenchmarkIntersectBatch(b *testing.B) {
+	for _, w := range workloads {
+		b.Run(w.name, func(b *testing.B) {
+			m, err := w.make()
+			if err != nil {
+				b.Fatal(err)
+			}
+			s := newScene(m, 0)
+			st := sample.NewStream(1, 0, 0)
+			var t tally
+			const batch = 1024
+			b.ReportAllocs()
+			b.ResetTimer()
+			for b.Loop() {
+				s.traceBatch(batch, st, &t)
+				st.Skip(5 * batch)
+			}
+			b.ReportMetric(float64(batch)*float64(b.N)/b.Elapsed().Seconds(), "rays/s")
+		})
+	}
+}

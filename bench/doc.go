@@ -7,7 +7,9 @@
 // (vertices, facets, surface tables) and the tree; mrays are millions of the
 // engine's real rays per second (an emitting facet picked in proportion to
 // area with an alias table, a uniform point on it, a cosine-weighted
-// direction about its normal, the closest hit), ray generation included.
+// direction about its normal, the closest hit), ray generation included,
+// traced in interleaved batches (bvh.Tree.IntersectBatch) as the estimator
+// traces them; the table also shows one ray at a time for comparison.
 //
 // Usage:
 //

@@ -21,7 +21,8 @@ type result struct {
 	facets              int
 	build1, buildAll    time.Duration
 	bytesPerFacet       float64
-	mrays1, mraysAll    float64
+	mrays1, mraysAll    float64 // interleaved batches, as the estimator traces
+	mraysSingle         float64 // one ray at a time, for comparison
 	threads             int
 	sahCost             float64
 	depth               int
@@ -60,9 +61,10 @@ func main() {
 
 		// Warm up, then measure one thread and all threads.
 		var warm tally
-		s.trace(min(*rays/10, 100000), sample.NewStream(1, -1, 0), &warm)
-		r.mrays1 = measure(s, *rays, 1)
-		r.mraysAll = measure(s, *rays, *threads)
+		s.traceBatch(min(*rays/10, 100000), sample.NewStream(1, -1, 0), &warm)
+		r.mrays1 = measure(s, *rays, 1, s.traceBatch)
+		r.mraysAll = measure(s, *rays, *threads, s.traceBatch)
+		r.mraysSingle = measure(s, *rays, 1, s.trace)
 		if w.name == "squares" {
 			r.squaresF, r.squaresSE = squaresViewFactor(s, *rays)
 		}
@@ -73,10 +75,10 @@ func main() {
 		log.Fatalf("unknown workload %q (squares, box, room, sphere or all)", *which)
 	}
 	tw := tabwriter.NewWriter(os.Stdout, 0, 4, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "workload\tfacets\tbuild 1t [s]\tbuild all [s]\tbytes/facet\tSAH cost\tdepth\tMrays/s 1t\tMrays/s all\tthreads\tefficiency\t")
+	fmt.Fprintln(tw, "workload\tfacets\tbuild 1t [s]\tbuild all [s]\tbytes/facet\tSAH cost\tdepth\tMrays/s 1t\tMrays/s all\tthreads\tefficiency\t1t, one ray at a time\t")
 	for _, r := range results {
-		fmt.Fprintf(tw, "%s\t%d\t%.3f\t%.3f\t%.1f\t%.1f\t%d\t%.3f\t%.3f\t%d\t%.2f\t\n", r.name, r.facets,
-			r.build1.Seconds(), r.buildAll.Seconds(), r.bytesPerFacet, r.sahCost, r.depth, r.mrays1, r.mraysAll, r.threads, r.mraysAll/(r.mrays1*float64(r.threads)))
+		fmt.Fprintf(tw, "%s\t%d\t%.3f\t%.3f\t%.1f\t%.1f\t%d\t%.3f\t%.3f\t%d\t%.2f\t%.3f\t\n", r.name, r.facets,
+			r.build1.Seconds(), r.buildAll.Seconds(), r.bytesPerFacet, r.sahCost, r.depth, r.mrays1, r.mraysAll, r.threads, r.mraysAll/(r.mrays1*float64(r.threads)), r.mraysSingle)
 	}
 	tw.Flush()
 	for _, r := range results {
@@ -95,14 +97,17 @@ func main() {
 	}
 }
 
+// tracer is scene.trace or scene.traceBatch.
+type tracer func(n int, st sample.Stream, t *tally)
+
 // measure returns the median Mrays/s of three runs of n rays on threads.
-func measure(s *scene, n, threads int) float64 {
-	r := []float64{measureOnce(s, n, threads), measureOnce(s, n, threads), measureOnce(s, n, threads)}
+func measure(s *scene, n, threads int, trace tracer) float64 {
+	r := []float64{measureOnce(n, threads, trace), measureOnce(n, threads, trace), measureOnce(n, threads, trace)}
 	sort.Float64s(r)
 	return r[1]
 }
 
-func measureOnce(s *scene, n, threads int) float64 {
+func measureOnce(n, threads int, trace tracer) float64 {
 	var wg sync.WaitGroup
 	start := time.Now()
 	for k := range threads {
@@ -110,7 +115,7 @@ func measureOnce(s *scene, n, threads int) float64 {
 		go func() {
 			defer wg.Done()
 			var t tally
-			s.trace(n/threads, sample.NewStream(7, int64(k), 0), &t)
+			trace(n/threads, sample.NewStream(7, int64(k), 0), &t)
 		}()
 	}
 	wg.Wait()
@@ -120,7 +125,7 @@ func measureOnce(s *scene, n, threads int) float64 {
 // squaresViewFactor estimates F from the bottom square to the top one.
 func squaresViewFactor(s *scene, n int) (f, se float64) {
 	var t tally
-	s.trace(n, sample.NewStream(99, 0, 0), &t)
+	s.traceBatch(n, sample.NewStream(99, 0, 0), &t)
 	bottom := s.m.SurfaceIndex("bottom")
 	top := s.m.SurfaceIndex("top")
 	nb := float64(t.fromSurface[bottom])

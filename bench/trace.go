@@ -28,6 +28,8 @@ func newScene(m *mesh.Mesh, threads int) *scene {
 	s.emitters = make([]emitter, len(m.Facets))
 	for f := range m.Facets {
 		t := m.Triangle(f)
+		// Emit from the triangle exactly as the tree stores it.
+		t = geometry.Triangle{V0: bvh.RoundVertex(t.V0), V1: bvh.RoundVertex(t.V1), V2: bvh.RoundVertex(t.V2)}
 		areas[f] = t.Area()
 		s.emitters[f] = emitter{v0: t.V0, e1: t.V1.Sub(t.V0), e2: t.V2.Sub(t.V0), n: t.Normal()}
 	}
@@ -40,6 +42,44 @@ type tally struct {
 	rays, escaped int
 	fromSurface   []int   // rays by surface of the emitter
 	pair          [][]int // hits by (emitter surface, surface hit)
+}
+
+// traceBatch is trace with IntersectBatch, in batches of 64 rays.
+func (s *scene) traceBatch(n int, st sample.Stream, t *tally) {
+	ns := len(s.m.Surfaces)
+	if t.pair == nil {
+		t.fromSurface = make([]int, ns)
+		t.pair = make([][]int, ns)
+		for i := range t.pair {
+			t.pair[i] = make([]int, ns)
+		}
+	}
+	var b bvh.Batch
+	var qs [64]bvh.Query
+	var hits [64]bvh.Hit
+	for done := 0; done < n; done += len(qs) {
+		for k := range qs {
+			f := s.pick.Pick(st.Float64())
+			e := &s.emitters[f]
+			b1, b2 := sample.UniformTriangle(st.Float64(), st.Float64())
+			p := e.v0.Add(e.e1.Scale(b1)).Add(e.e2.Scale(b2))
+			x, y, z := sample.CosineHemisphere(st.Float64(), st.Float64())
+			d := geometry.NewFrame(e.n).ToWorld(x, y, z)
+			o := geometry.OffsetOrigin(p, e.v0, e.v0.Add(e.e1), e.v0.Add(e.e2), 1-b1-b2, b1, b2, e.n)
+			qs[k] = bvh.Query{O: o, D: d, TMax: math.Inf(1), Skip: int32(f)}
+		}
+		s.tree.IntersectBatch(&b, qs[:], hits[:])
+		for k, h := range hits {
+			f := qs[k].Skip
+			t.rays++
+			t.fromSurface[s.m.SurfaceOf[f]]++
+			if h.Facet < 0 {
+				t.escaped++
+				continue
+			}
+			t.pair[s.m.SurfaceOf[f]][s.m.SurfaceOf[h.Facet]]++
+		}
+	}
 }
 
 // trace fires n rays with stream st and tallies their first hits.

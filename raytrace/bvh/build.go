@@ -13,9 +13,9 @@ import (
 // one triangle test, measured rather than published (common practice is
 // to tune them per implementation).
 const (
-	numBins       = 16
-	maxLeafSize   = 16      // a node with more triangles is always split
-	costTrav      = 3.0     // SAH cost of visiting an inner node
+	numBins       = 12
+	maxLeafSize   = 8       // a node with more triangles is always split
+	costTrav      = 1.0     // SAH cost of visiting an inner node
 	costTri       = 1.0     // SAH cost of one triangle test
 	maxSAHDepth   = 32      // below this depth, split at the median (bounds the stack)
 	parallelSplit = 1 << 15 // subtrees larger than this build on their own goroutine
@@ -28,12 +28,14 @@ type Options struct {
 	Threads int
 }
 
-// box is a float64 bounding box indexed by axis.
-type box struct{ lo, hi [3]float64 }
+// box is a bounding box indexed by axis. float32 is exact here: the tree
+// stores vertices as float32, so the bounds of the stored triangles are
+// float32 numbers, and node bounds need no outward rounding.
+type box struct{ lo, hi [3]float32 }
 
 func emptyBox() box {
-	inf := math.Inf(1)
-	return box{[3]float64{inf, inf, inf}, [3]float64{-inf, -inf, -inf}}
+	inf := float32(math.Inf(1))
+	return box{[3]float32{inf, inf, inf}, [3]float32{-inf, -inf, -inf}}
 }
 
 // grow extends b to hold o. Plain comparisons: math.Min and math.Max are
@@ -50,7 +52,7 @@ func (b *box) grow(o *box) {
 }
 
 // add extends b to hold point p.
-func (b *box) add(p *[3]float64) {
+func (b *box) add(p *[3]float32) {
 	for k := range 3 {
 		if p[k] < b.lo[k] {
 			b.lo[k] = p[k]
@@ -62,14 +64,16 @@ func (b *box) add(p *[3]float64) {
 }
 
 func (b *box) area() float64 {
-	dx, dy, dz := b.hi[0]-b.lo[0], b.hi[1]-b.lo[1], b.hi[2]-b.lo[2]
+	dx := float64(b.hi[0]) - float64(b.lo[0])
+	dy := float64(b.hi[1]) - float64(b.lo[1])
+	dz := float64(b.hi[2]) - float64(b.lo[2])
 	if dx < 0 || dy < 0 || dz < 0 {
 		return 0
 	}
 	return 2 * (dx*dy + dy*dz + dz*dx)
 }
 
-// prim is a triangle during the build: its bounds and facet id (56 bytes;
+// prim is a triangle during the build: its bounds and facet id (28 bytes;
 // the build moves prims around, so centroids are computed, not stored).
 type prim struct {
 	b  box
@@ -77,10 +81,8 @@ type prim struct {
 }
 
 // centre returns the centroid of p's box on axis k.
-func (p *prim) centre(k int) float64 { return 0.5 * (p.b.lo[k] + p.b.hi[k]) }
+func (p *prim) centre(k int) float32 { return 0.5 * (p.b.lo[k] + p.b.hi[k]) }
 
-// centroid returns the centre of p's box.
-func (p *prim) centroid() [3]float64 { return [3]float64{p.centre(0), p.centre(1), p.centre(2)} }
 
 type builder struct {
 	prims []prim
@@ -101,9 +103,9 @@ func Build(v []geometry.Vec3, f [][3]int32, opts Options) *Tree {
 		p := prim{b: emptyBox(), id: int32(i)}
 		finite := true
 		for _, vi := range t {
-			x := v[vi].Array()
+			x := [3]float32{float32(v[vi].X), float32(v[vi].Y), float32(v[vi].Z)}
 			for k := range 3 {
-				finite = finite && !math.IsNaN(x[k]) && !math.IsInf(x[k], 0)
+				finite = finite && !math.IsNaN(float64(x[k])) && !math.IsInf(float64(x[k]), 0)
 			}
 			p.b.add(&x)
 		}
@@ -116,14 +118,15 @@ func Build(v []geometry.Vec3, f [][3]int32, opts Options) *Tree {
 	if len(b.prims) > 0 {
 		// The root, then an unused node, so that every child pair starts at
 		// an even index: 64-byte aligned in the page-aligned array.
-		t.Nodes = make([]Node, 2, 2*len(b.prims)/3+2)
-		bounds, cb := emptyBox(), emptyBox()
+		t.Nodes = make([]Node, 2, len(b.prims)+2)
+		bounds := emptyBox()
 		for i := range b.prims {
 			bounds.grow(&b.prims[i].b)
-			c := b.prims[i].centroid()
-			cb.add(&c)
 		}
-		b.build(&t.Nodes, 0, 0, len(b.prims), 1, bounds, cb)
+		b.build(&t.Nodes, 0, 0, len(b.prims), 1, bounds)
+	}
+	if cap(t.Nodes) > len(t.Nodes)+len(t.Nodes)/4 {
+		t.Nodes = append([]Node(nil), t.Nodes...) // give back the spare capacity
 	}
 	t.gather(v, f, b.prims)
 	t.Stats.BuildTime = time.Since(start)
@@ -132,22 +135,13 @@ func Build(v []geometry.Vec3, f [][3]int32, opts Options) *Tree {
 	return t
 }
 
-// gather stores the triangles in leaf order and copies their vertices in
-// order of first use, so that a leaf's data sits together in memory.
+// gather stores the triangles in leaf order with their rounded vertices.
 func (t *Tree) gather(v []geometry.Vec3, f [][3]int32, prims []prim) {
-	t.tris = make([]triRef, len(prims))
-	remap := make([]int32, len(v))
-	for i := range remap {
-		remap[i] = -1
-	}
+	t.tris = make([]leafTri, len(prims))
 	for i, p := range prims {
-		r := triRef{id: p.id}
+		r := leafTri{id: p.id}
 		for k, vi := range f[p.id] {
-			if remap[vi] < 0 {
-				remap[vi] = int32(len(t.verts))
-				t.verts = append(t.verts, v[vi].Array())
-			}
-			r.v[k] = remap[vi]
+			r.v[3*k], r.v[3*k+1], r.v[3*k+2] = float32(v[vi].X), float32(v[vi].Y), float32(v[vi].Z)
 		}
 		t.tris[i] = r
 	}
@@ -158,14 +152,15 @@ func (t *Tree) gather(v []geometry.Vec3, f [][3]int32, prims []prim) {
 // one 64-byte cache line holds both boxes the traversal tests together;
 // pairs follow each other in depth-first order.
 //
-// bounds and cb are the bounds of the triangles and of their centroids; the
-// binning pass returns them for both children, so each level reads its
-// triangles once to bin them and once to partition them.
-func (b *builder) build(nodes *[]Node, me, lo, hi, depth int, bounds, cb box) {
+// bounds are the bounds of the triangles; the binning pass returns them for
+// both children, so each level reads its triangles once to bin them and once
+// to partition them. Bins span the node's bounds rather than its centroids'
+// (which would cost another pass); the centroids lie inside them.
+func (b *builder) build(nodes *[]Node, me, lo, hi, depth int, bounds box) {
 	ps := b.prims[lo:hi]
 	nd := &(*nodes)[me]
 	for k := range 3 {
-		nd.Bounds[k], nd.Bounds[k+3] = roundDown(bounds.lo[k]), roundUp(bounds.hi[k])
+		nd.Bounds[k], nd.Bounds[k+3] = bounds.lo[k], bounds.hi[k]
 	}
 	n := hi - lo
 	if n == 1 {
@@ -174,15 +169,15 @@ func (b *builder) build(nodes *[]Node, me, lo, hi, depth int, bounds, cb box) {
 	}
 	axis := 0
 	for k := 1; k < 3; k++ {
-		if cb.hi[k]-cb.lo[k] > cb.hi[axis]-cb.lo[axis] {
+		if bounds.hi[k]-bounds.lo[k] > bounds.hi[axis]-bounds.lo[axis] {
 			axis = k
 		}
 	}
-	extent := cb.hi[axis] - cb.lo[axis]
+	extent := float64(bounds.hi[axis]) - float64(bounds.lo[axis])
 	mid := -1
 	var split sides
 	if extent > 0 && depth < maxSAHDepth {
-		mid, split = b.sahSplit(ps, &bounds, cb.lo[axis], extent, axis, n)
+		mid, split = b.sahSplit(ps, &bounds, float64(bounds.lo[axis]), extent, axis, n)
 	}
 	if mid < 0 || mid == n {
 		// All centroids coincide, the depth cap is reached, or binning put
@@ -208,8 +203,8 @@ func (b *builder) build(nodes *[]Node, me, lo, hi, depth int, bounds, cb box) {
 	if n > parallelSplit && b.buildParallel(nodes, base, lo, mid, hi, depth, &split) {
 		return
 	}
-	b.build(nodes, base, lo, lo+mid, depth+1, split.lb, split.lc)
-	b.build(nodes, base+1, lo+mid, hi, depth+1, split.rb, split.rc)
+	b.build(nodes, base, lo, lo+mid, depth+1, split.lb)
+	b.build(nodes, base+1, lo+mid, hi, depth+1, split.rb)
 }
 
 // buildParallel builds the right child on another goroutine when a token
@@ -223,15 +218,15 @@ func (b *builder) buildParallel(nodes *[]Node, base, lo, mid, hi, depth int, spl
 		return false
 	}
 	right := make([]Node, 1, 2*(hi-lo-mid)/3+2)
-	rb, rc := split.rb, split.rc
+	rb := split.rb
 	var wg sync.WaitGroup
 	wg.Add(1)
 	go func() {
 		defer wg.Done()
-		b.build(&right, 0, lo+mid, hi, depth+1, rb, rc)
+		b.build(&right, 0, lo+mid, hi, depth+1, rb)
 		<-b.sem
 	}()
-	b.build(nodes, base, lo, lo+mid, depth+1, split.lb, split.lc)
+	b.build(nodes, base, lo, lo+mid, depth+1, split.lb)
 	wg.Wait()
 	shift := int32(len(*nodes) - 1)
 	for i := range right {
@@ -244,21 +239,17 @@ func (b *builder) buildParallel(nodes *[]Node, base, lo, mid, hi, depth int, spl
 	return true
 }
 
-// sides are the triangle and centroid bounds of both halves of a split.
-type sides struct{ lb, lc, rb, rc box }
+// sides are the bounds of both halves of a split.
+type sides struct{ lb, rb box }
 
 // measure computes the sides of a split by reading every triangle.
 func measure(l, r []prim) sides {
-	s := sides{emptyBox(), emptyBox(), emptyBox(), emptyBox()}
+	s := sides{emptyBox(), emptyBox()}
 	for i := range l {
 		s.lb.grow(&l[i].b)
-		c := l[i].centroid()
-		s.lc.add(&c)
 	}
 	for i := range r {
 		s.rb.grow(&r[i].b)
-		c := r[i].centroid()
-		s.rc.add(&c)
 	}
 	return s
 }
@@ -270,18 +261,17 @@ func measure(l, r []prim) sides {
 // no plane separates the centroids) and the bounds of both parts.
 func (b *builder) sahSplit(ps []prim, bounds *box, cmin, extent float64, axis, n int) (int, sides) {
 	var counts [numBins]int
-	var boxes, cents [numBins]box
+	var boxes [numBins]box
 	for i := range boxes {
-		boxes[i], cents[i] = emptyBox(), emptyBox()
+		boxes[i] = emptyBox()
 	}
 	scale := numBins * (1 - 1e-6) / extent
 	for i := range ps {
-		c := ps[i].centroid()
-		k := int((c[axis] - cmin) * scale)
+		k := int((float64(ps[i].centre(axis)) - cmin) * scale)
 		k = min(max(k, 0), numBins-1)
 		counts[k]++
 		boxes[k].grow(&ps[i].b)
-		cents[k].add(&c)
+
 	}
 	// Backward sweep: area·count of everything right of each plane.
 	var rightCost [numBins]float64
@@ -317,20 +307,18 @@ func (b *builder) sahSplit(ps []prim, bounds *box, cmin, extent float64, axis, n
 	if n <= maxLeafSize && costTri*float64(n) <= splitCost {
 		return 0, sides{}
 	}
-	sd := sides{emptyBox(), emptyBox(), emptyBox(), emptyBox()}
+	sd := sides{emptyBox(), emptyBox()}
 	for k := range numBins {
 		if k < bestK {
 			sd.lb.grow(&boxes[k])
-			sd.lc.grow(&cents[k])
 		} else {
 			sd.rb.grow(&boxes[k])
-			sd.rc.grow(&cents[k])
 		}
 	}
 	// Partition in place: bins below bestK to the left.
 	i, j := 0, n-1
 	for i <= j {
-		k := int((ps[i].centre(axis) - cmin) * scale)
+		k := int((float64(ps[i].centre(axis)) - cmin) * scale)
 		if k < bestK {
 			i++
 			continue

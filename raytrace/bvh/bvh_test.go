@@ -16,8 +16,8 @@ func TestNodeSize(t *testing.T) {
 	if s := unsafe.Sizeof(Node{}); s != 32 {
 		t.Errorf("Node is %d bytes, want 32", s)
 	}
-	if s := unsafe.Sizeof(triRef{}); s != 16 {
-		t.Errorf("triRef is %d bytes, want 16", s)
+	if s := unsafe.Sizeof(leafTri{}); s != 40 {
+		t.Errorf("leafTri is %d bytes, want 40", s)
 	}
 }
 
@@ -65,6 +65,7 @@ func TestAgainstBruteForce(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 2))
 	for _, n := range []int{1, 2, 7, 100, 3000} {
 		v, f := randomSoup(rng, n, 0.2)
+		roundAll(v)
 		tree := Build(v, f, Options{Threads: 2})
 		for range 3000 {
 			o := geometry.Vec3{X: rng.Float64()*1.4 - 0.2, Y: rng.Float64()*1.4 - 0.2, Z: rng.Float64()*1.4 - 0.2}
@@ -121,6 +122,14 @@ func TestEmptyAndDegenerate(t *testing.T) {
 	}
 }
 
+// roundAll rounds vertices as the tree stores them, so that brute force and
+// emission see exactly the tree's triangles.
+func roundAll(v []geometry.Vec3) {
+	for i := range v {
+		v[i] = RoundVertex(v[i])
+	}
+}
+
 // emit returns a ray leaving facet f of m like the estimator's rays: a
 // uniform point, a cosine-weighted direction about the front normal, the
 // origin offset off the facet's plane.
@@ -150,6 +159,7 @@ func TestWatertightClosedShapes(t *testing.T) {
 	}
 	for name, m := range shapes {
 		t.Run(name, func(t *testing.T) {
+			roundAll(m.Vertices)
 			tree := Build(m.Vertices, m.Facets, Options{})
 			s := sample.NewStream(11, 0, 0)
 			escapes, selfHits, backHits := 0, 0, 0
@@ -187,6 +197,7 @@ func TestScaleInvariance(t *testing.T) {
 	var hits [2][]int32
 	for i, scale := range []float64{1e-3, 1e4} {
 		m := mesh.Box("", geometry.Box{Min: geometry.Vec3{X: 1, Y: 2, Z: 3}.Scale(scale), Max: geometry.Vec3{X: 2, Y: 4, Z: 3.5}.Scale(scale)}, 4, true)
+		roundAll(m.Vertices)
 		tree := Build(m.Vertices, m.Facets, Options{})
 		s := sample.NewStream(3, 0, 0)
 		for range 20000 {
@@ -209,6 +220,7 @@ func TestScaleInvariance(t *testing.T) {
 
 func TestNoAllocations(t *testing.T) {
 	m := mesh.Sphere("s", geometry.Vec3{}, 1, 6, true)
+	roundAll(m.Vertices)
 	tree := Build(m.Vertices, m.Facets, Options{})
 	s := sample.NewStream(1, 0, 0)
 	o, d := emit(m, 3, &s)

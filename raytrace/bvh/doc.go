@@ -4,12 +4,13 @@
 //
 // # Layout
 //
-// The tree is flattened into 32-byte Nodes (float32 bounds rounded outward,
-// so they stay conservative). The two children of an inner node sit side by
+// The tree is flattened into 32-byte Nodes with float32 bounds. Vertices
+// are stored rounded to float32 (RoundVertex), so the bounds of the stored
+// triangles are float32 numbers and are exact, hence conservative. The two children of an inner node sit side by
 // side at Offset and Offset+1, 64-byte aligned, so the traversal's test of
 // both children touches one cache line; the pairs are laid out depth-first. Triangles are stored in
-// leaf order as three indices into the tree's own copy of the vertices, also
-// in leaf order, plus the caller's facet id; a leaf's data is contiguous.
+// leaf order with their float32 vertices and the caller's facet id, 40 bytes
+// each; a leaf's data is one contiguous run.
 //
 // # Robustness
 //

@@ -1,10 +1,14 @@
 package bvh
 
-import "math"
+import (
+	"math"
+
+	"github.com/hemiray/hemiray/geometry"
+)
 
 // Node is one node of the flattened tree: 32 bytes, pinned by a test.
 //
-//	Bounds    [6]float32  24 bytes: min x, y, z, max x, y, z, rounded outward
+//	Bounds    [6]float32  24 bytes: min x, y, z, max x, y, z (exact: vertices are float32)
 //	Offset    int32        inner: index of the first child (the second follows it); leaf: first triangle
 //	Count     uint16       triangles in a leaf, 0 for an inner node
 //	Axis      uint8        split axis of an inner node (0, 1, 2)
@@ -16,17 +20,32 @@ type Node struct {
 	_      uint8
 }
 
-// triRef is a triangle in leaf order: vertex indices and the facet id.
-type triRef struct {
-	v  [3]int32
+// leafTri is a triangle in leaf order: its vertices rounded to float32 and
+// its facet id, 40 bytes, so that a leaf's triangles are one contiguous run
+// of memory with no indirection. float32 is the precision of binary STL;
+// RoundVertex gives callers the same rounded points, so that rays can start
+// exactly on the triangles the tree holds.
+type leafTri struct {
+	v  [9]float32
 	id int32
+}
+
+// vertex returns corner k as float64 (exact).
+func (t *leafTri) vertex(k int) [3]float64 {
+	return [3]float64{float64(t.v[3*k]), float64(t.v[3*k+1]), float64(t.v[3*k+2])}
+}
+
+// RoundVertex returns p as the tree stores it: each coordinate rounded to
+// the nearest float32. Emitters built from rounded vertices lie exactly on
+// the tree's triangles.
+func RoundVertex(p geometry.Vec3) geometry.Vec3 {
+	return geometry.Vec3{X: float64(float32(p.X)), Y: float64(float32(p.Y)), Z: float64(float32(p.Z))}
 }
 
 // Tree is a built BVH. It is read-only after Build and safe for concurrent use.
 type Tree struct {
 	Nodes []Node
-	tris  []triRef
-	verts [][3]float64
+	tris  []leafTri
 	Stats Stats
 }
 
@@ -43,21 +62,5 @@ var Miss = Hit{T: math.Inf(1), Facet: -1}
 
 // Bytes returns the memory the tree holds, in bytes.
 func (t *Tree) Bytes() int {
-	return len(t.Nodes)*32 + len(t.tris)*16 + len(t.verts)*24
-}
-
-func roundDown(x float64) float32 {
-	f := float32(x)
-	if float64(f) > x {
-		f = math.Nextafter32(f, float32(math.Inf(-1)))
-	}
-	return f
-}
-
-func roundUp(x float64) float32 {
-	f := float32(x)
-	if float64(f) < x {
-		f = math.Nextafter32(f, float32(math.Inf(1)))
-	}
-	return f
+	return len(t.Nodes)*32 + len(t.tris)*40
 }

@@ -89,53 +89,111 @@ func (r *rayBox) slab(n *Node, tMaxKey int64) (int64, bool) {
 	return t0, t0 <= t1
 }
 
-// traversal is the shared loop of Intersect and Occluded: it tests both
-// children of an inner node, descends into the nearer one that is hit and
-// pushes the other with its entry distance, so that a popped node behind
-// the closest hit found so far is skipped without touching it.
+// stackEntry is a subtree to visit later, with the order key of the
+// distance at which the ray enters it.
 type stackEntry struct {
 	node int32
-	t    int64 // orderKey of the entry distance
+	t    int64
 }
 
 // Intersect returns the closest hit of the ray from o along d with
 // 0 < t < tMax, skipping the facet with id skip (the emitter; −1 skips
 // nothing). A miss returns Miss.
 func (t *Tree) Intersect(o, d geometry.Vec3, tMax float64, skip int32) Hit {
+	return t.traverse(o, d, tMax, skip, false)
+}
+
+// Occluded reports whether anything but facet skip lies on the ray from o
+// along d with 0 < t < tMax (a visibility query: the first hit ends it).
+func (t *Tree) Occluded(o, d geometry.Vec3, tMax float64, skip int32) bool {
+	return t.traverse(o, d, tMax, skip, true).Facet >= 0
+}
+
+// traverse is the loop of both queries. At an inner node it tests the
+// boxes of both children (one cache line, see Node), descends into the
+// nearer one hit and pushes the other with its entry distance, so that a
+// popped subtree behind the closest hit so far is dropped untouched. The
+// slab test is written out here rather than called: it runs twice per
+// visited node, and the call and its spills cost as much as its arithmetic.
+func (t *Tree) traverse(o, d geometry.Vec3, tMax float64, skip int32, anyHit bool) Hit {
 	hit := Miss
 	if len(t.Nodes) == 0 {
 		return hit
 	}
-	rb := newRayBox(o, d)
+	r := newRayBox(o, d)
 	tMaxKey := orderKey(tMax)
-	if _, ok := rb.slab(&t.Nodes[0], tMaxKey); !ok {
+	if _, ok := r.slab(&t.Nodes[0], tMaxKey); !ok {
 		return hit
 	}
 	sh := geometry.NewShear(o, d)
-	nodes, tris, verts := t.Nodes, t.tris, t.verts
+	nodes, tris := t.Nodes, t.tris
+	ox, oy, oz, ix, iy, iz := r.ox, r.oy, r.oz, r.ix, r.iy, r.iz
+	fx, fy, fz := ix*farScale, iy*farScale, iz*farScale
+	nx, ny, nz, mx, my, mz := r.nx, r.ny, r.nz, r.fx, r.fy, r.fz
 	var stack [stackSize]stackEntry
 	sp := 0
 	cur := int32(0)
 	for {
 		n := &nodes[cur]
 		if n.Count == 0 {
-			l, r := n.Offset, n.Offset+1
-			tl, hl := rb.slab(&nodes[l], tMaxKey)
-			tr, hr := rb.slab(&nodes[r], tMaxKey)
+			// Both children, near and far planes per axis; see rayBox.
+			lb, rb := &nodes[n.Offset].Bounds, &nodes[n.Offset+1].Bounds
+			l0 := int64(math.Float64bits((float64(lb[nx]) - ox) * ix))
+			r0 := int64(math.Float64bits((float64(rb[nx]) - ox) * ix))
+			l1 := int64(math.Float64bits((float64(lb[mx])-ox)*fx + 0))
+			r1 := int64(math.Float64bits((float64(rb[mx])-ox)*fx + 0))
+			if v := int64(math.Float64bits((float64(lb[ny]) - oy) * iy)); v > l0 {
+				l0 = v
+			}
+			if v := int64(math.Float64bits((float64(rb[ny]) - oy) * iy)); v > r0 {
+				r0 = v
+			}
+			if v := int64(math.Float64bits((float64(lb[my])-oy)*fy + 0)); v < l1 {
+				l1 = v
+			}
+			if v := int64(math.Float64bits((float64(rb[my])-oy)*fy + 0)); v < r1 {
+				r1 = v
+			}
+			if v := int64(math.Float64bits((float64(lb[nz]) - oz) * iz)); v > l0 {
+				l0 = v
+			}
+			if v := int64(math.Float64bits((float64(rb[nz]) - oz) * iz)); v > r0 {
+				r0 = v
+			}
+			if v := int64(math.Float64bits((float64(lb[mz])-oz)*fz + 0)); v < l1 {
+				l1 = v
+			}
+			if v := int64(math.Float64bits((float64(rb[mz])-oz)*fz + 0)); v < r1 {
+				r1 = v
+			}
+			if l0 < 0 {
+				l0 = 0
+			}
+			if r0 < 0 {
+				r0 = 0
+			}
+			if tMaxKey < l1 {
+				l1 = tMaxKey
+			}
+			if tMaxKey < r1 {
+				r1 = tMaxKey
+			}
+			hl, hr := l0 <= l1, r0 <= r1
 			switch {
 			case hl && hr:
-				if tr < tl {
-					l, r, tl, tr = r, l, tr, tl
+				near, far, tFar := n.Offset, n.Offset+1, r0
+				if r0 < l0 {
+					near, far, tFar = far, near, l0
 				}
-				stack[sp] = stackEntry{r, tr}
+				stack[sp] = stackEntry{far, tFar}
 				sp++
-				cur = l
+				cur = near
 				continue
 			case hl:
-				cur = l
+				cur = n.Offset
 				continue
 			case hr:
-				cur = r
+				cur = n.Offset + 1
 				continue
 			}
 		} else {
@@ -145,10 +203,14 @@ func (t *Tree) Intersect(o, d geometry.Vec3, tMax float64, skip int32) Hit {
 				if tri.id == skip {
 					continue
 				}
-				th, b1, b2, front, ok := sh.Triangle(&verts[tri.v[0]], &verts[tri.v[1]], &verts[tri.v[2]], tMax)
+				a, b, c := tri.vertex(0), tri.vertex(1), tri.vertex(2)
+				th, b1, b2, front, ok := sh.Triangle(&a, &b, &c, tMax)
 				if ok {
 					tMax, tMaxKey = th, orderKey(th)
 					hit = Hit{T: th, B1: b1, B2: b2, Facet: tri.id, Front: front}
+					if anyHit {
+						return hit
+					}
 				}
 			}
 		}
@@ -166,57 +228,6 @@ func (t *Tree) Intersect(o, d geometry.Vec3, tMax float64, skip int32) Hit {
 	}
 }
 
-// Occluded reports whether anything but facet skip lies on the ray from o
-// along d with 0 < t < tMax (a visibility query: the first hit ends it).
-func (t *Tree) Occluded(o, d geometry.Vec3, tMax float64, skip int32) bool {
-	if len(t.Nodes) == 0 {
-		return false
-	}
-	rb := newRayBox(o, d)
-	tMaxKey := orderKey(tMax)
-	if _, ok := rb.slab(&t.Nodes[0], tMaxKey); !ok {
-		return false
-	}
-	sh := geometry.NewShear(o, d)
-	nodes, tris, verts := t.Nodes, t.tris, t.verts
-	var stack [stackSize]int32
-	sp := 0
-	cur := int32(0)
-	for {
-		n := &nodes[cur]
-		if n.Count == 0 {
-			l, r := n.Offset, n.Offset+1
-			_, hl := rb.slab(&nodes[l], tMaxKey)
-			_, hr := rb.slab(&nodes[r], tMaxKey)
-			switch {
-			case hl && hr:
-				stack[sp] = r
-				sp++
-				cur = l
-				continue
-			case hl:
-				cur = l
-				continue
-			case hr:
-				cur = r
-				continue
-			}
-		} else {
-			end := n.Offset + int32(n.Count)
-			for i := n.Offset; i < end; i++ {
-				tri := &tris[i]
-				if tri.id == skip {
-					continue
-				}
-				if _, _, _, _, ok := sh.Triangle(&verts[tri.v[0]], &verts[tri.v[1]], &verts[tri.v[2]], tMax); ok {
-					return true
-				}
-			}
-		}
-		if sp == 0 {
-			return false
-		}
-		sp--
-		cur = stack[sp]
-	}
-}
+// farScale widens exit distances; it carries one rounding more than
+// geometry.SlabScale because it is folded into the reciprocal direction.
+var farScale = 1 + 2*4*0x1p-53/(1-4*0x1p-53)

@@ -1,0 +1,214 @@
+package bvh
+
+import (
+	"math"
+	"unsafe"
+
+	"github.com/hemiray/hemiray/geometry"
+)
+
+// Query is one ray of a batch for IntersectBatch: from O along D, for hits
+// with 0 < t < TMax, skipping facet Skip (−1 skips nothing).
+type Query struct {
+	O, D geometry.Vec3
+	TMax float64
+	Skip int32
+}
+
+// lanes is how many rays a Batch traverses at once.
+const lanes = 8
+
+// Batch traces many independent rays by interleaving their traversals: it
+// advances each of a few rays by one node in turn. A single ray's traversal
+// is a chain of dependent loads, and on a tree larger than the caches each
+// link waits hundreds of nanoseconds for memory; interleaving lets the
+// processor fetch for several rays at once. A Batch holds one worker's
+// traversal state (stacks included), so it is reused, never shared.
+type Batch struct {
+	l [lanes]lane
+}
+
+type lane struct {
+	ox, oy, oz, ix, iy, iz, fx, fy, fz float64
+	nx, ny, nz, mx, my, mz             int
+	sh                                 geometry.Shear
+	tMax                               float64
+	tMaxKey                            int64
+	hit                                Hit
+	skip, cur, q                       int32
+	sp                                 int
+	stack                              [stackSize]stackEntry
+}
+
+// IntersectBatch stores in hits[i] the closest hit of qs[i], exactly as
+// Intersect would. hits must be at least as long as qs.
+func (t *Tree) IntersectBatch(b *Batch, qs []Query, hits []Hit) {
+	hits = hits[:len(qs)]
+	next := 0
+	active := 0
+	for i := range b.l {
+		b.l[i].q = -1
+	}
+	start := func(l *lane) {
+		for next < len(qs) {
+			q := &qs[next]
+			next++
+			if t.startLane(l, q) {
+				t.fetchAhead(0)
+				l.q = int32(next - 1)
+				active++
+				return
+			}
+			hits[next-1] = Miss
+		}
+		l.q = -1
+	}
+	for i := range b.l {
+		start(&b.l[i])
+	}
+	for active > 0 {
+		for i := range b.l {
+			l := &b.l[i]
+			if l.q < 0 {
+				continue
+			}
+			if t.step(l) {
+				hits[l.q] = l.hit
+				active--
+				start(l)
+			}
+		}
+	}
+}
+
+// startLane loads a query into a lane; false if the ray misses the root.
+func (t *Tree) startLane(l *lane, q *Query) bool {
+	if len(t.Nodes) == 0 {
+		return false
+	}
+	r := newRayBox(q.O, q.D)
+	l.tMax, l.tMaxKey = q.TMax, orderKey(q.TMax)
+	if _, ok := r.slab(&t.Nodes[0], l.tMaxKey); !ok {
+		return false
+	}
+	l.ox, l.oy, l.oz, l.ix, l.iy, l.iz = r.ox, r.oy, r.oz, r.ix, r.iy, r.iz
+	l.fx, l.fy, l.fz = r.ix*farScale, r.iy*farScale, r.iz*farScale
+	l.nx, l.ny, l.nz, l.mx, l.my, l.mz = r.nx, r.ny, r.nz, r.fx, r.fy, r.fz
+	l.sh = geometry.NewShear(q.O, q.D)
+	l.hit, l.skip, l.cur, l.sp = Miss, q.Skip, 0, 0
+	return true
+}
+
+// fetchAhead starts loading what visiting node i will read: the pair of
+// its children, or its first triangle.
+func (t *Tree) fetchAhead(i int32) {
+	n := &t.Nodes[i]
+	if n.Count == 0 {
+		prefetch(uintptr(unsafe.Pointer(&t.Nodes[n.Offset])))
+	} else {
+		// A leaf's triangles are contiguous: fetch up to its first three lines.
+		p := uintptr(unsafe.Pointer(&t.tris[n.Offset]))
+		prefetch(p)
+		if n.Count > 1 {
+			prefetch(p + 64)
+		}
+		if n.Count > 3 {
+			prefetch(p + 128)
+		}
+	}
+}
+
+// step visits one node of the lane's traversal; true when the ray is done.
+func (t *Tree) step(l *lane) bool {
+	n := &t.Nodes[l.cur]
+	if n.Count == 0 {
+		lb, rb := &t.Nodes[n.Offset].Bounds, &t.Nodes[n.Offset+1].Bounds
+		ox, oy, oz := l.ox, l.oy, l.oz
+		l0 := int64(math.Float64bits((float64(lb[l.nx]) - ox) * l.ix))
+		r0 := int64(math.Float64bits((float64(rb[l.nx]) - ox) * l.ix))
+		l1 := int64(math.Float64bits((float64(lb[l.mx])-ox)*l.fx + 0))
+		r1 := int64(math.Float64bits((float64(rb[l.mx])-ox)*l.fx + 0))
+		if v := int64(math.Float64bits((float64(lb[l.ny]) - oy) * l.iy)); v > l0 {
+			l0 = v
+		}
+		if v := int64(math.Float64bits((float64(rb[l.ny]) - oy) * l.iy)); v > r0 {
+			r0 = v
+		}
+		if v := int64(math.Float64bits((float64(lb[l.my])-oy)*l.fy + 0)); v < l1 {
+			l1 = v
+		}
+		if v := int64(math.Float64bits((float64(rb[l.my])-oy)*l.fy + 0)); v < r1 {
+			r1 = v
+		}
+		if v := int64(math.Float64bits((float64(lb[l.nz]) - oz) * l.iz)); v > l0 {
+			l0 = v
+		}
+		if v := int64(math.Float64bits((float64(rb[l.nz]) - oz) * l.iz)); v > r0 {
+			r0 = v
+		}
+		if v := int64(math.Float64bits((float64(lb[l.mz])-oz)*l.fz + 0)); v < l1 {
+			l1 = v
+		}
+		if v := int64(math.Float64bits((float64(rb[l.mz])-oz)*l.fz + 0)); v < r1 {
+			r1 = v
+		}
+		if l0 < 0 {
+			l0 = 0
+		}
+		if r0 < 0 {
+			r0 = 0
+		}
+		if l.tMaxKey < l1 {
+			l1 = l.tMaxKey
+		}
+		if l.tMaxKey < r1 {
+			r1 = l.tMaxKey
+		}
+		hl, hr := l0 <= l1, r0 <= r1
+		switch {
+		case hl && hr:
+			near, far, tFar := n.Offset, n.Offset+1, r0
+			if r0 < l0 {
+				near, far, tFar = far, near, l0
+			}
+			l.stack[l.sp] = stackEntry{far, tFar}
+			l.sp++
+			l.cur = near
+			t.fetchAhead(near)
+			return false
+		case hl:
+			l.cur = n.Offset
+			t.fetchAhead(l.cur)
+			return false
+		case hr:
+			l.cur = n.Offset + 1
+			t.fetchAhead(l.cur)
+			return false
+		}
+	} else {
+		end := n.Offset + int32(n.Count)
+		for i := n.Offset; i < end; i++ {
+			tri := &t.tris[i]
+			if tri.id == l.skip {
+				continue
+			}
+			a, b, c := tri.vertex(0), tri.vertex(1), tri.vertex(2)
+			th, b1, b2, front, ok := l.sh.Triangle(&a, &b, &c, l.tMax)
+			if ok {
+				l.tMax, l.tMaxKey = th, orderKey(th)
+				l.hit = Hit{T: th, B1: b1, B2: b2, Facet: tri.id, Front: front}
+			}
+		}
+	}
+	for {
+		if l.sp == 0 {
+			return true
+		}
+		l.sp--
+		if l.stack[l.sp].t <= l.tMaxKey {
+			l.cur = l.stack[l.sp].node
+			t.fetchAhead(l.cur)
+			return false
+		}
+	}
+}
