@@ -83,7 +83,6 @@ type prim struct {
 // centre returns the centroid of p's box on axis k.
 func (p *prim) centre(k int) float32 { return 0.5 * (p.b.lo[k] + p.b.hi[k]) }
 
-
 type builder struct {
 	prims []prim
 	sem   chan struct{} // tokens for extra goroutines

@@ -245,3 +245,34 @@ func TestParallelBuildMatchesSerial(t *testing.T) {
 		}
 	}
 }
+
+// IntersectBatch must return exactly what Intersect returns, ray by ray.
+func TestBatchMatchesSingle(t *testing.T) {
+	m := mesh.Box("", geometry.Box{Max: geometry.Vec3{X: 2, Y: 1, Z: 1}}, 6, true)
+	if err := m.Append(mesh.Sphere("ball", geometry.Vec3{X: 1, Y: 0.5, Z: 0.5}, 0.3, 5, false)); err != nil {
+		t.Fatal(err)
+	}
+	roundAll(m.Vertices)
+	tree := Build(m.Vertices, m.Facets, Options{})
+	s := sample.NewStream(5, 0, 0)
+	qs := make([]Query, 1001) // not a multiple of the lane count
+	for i := range qs {
+		f := int(s.Uint64() % uint64(len(m.Facets)))
+		o, d := emit(m, f, &s)
+		qs[i] = Query{O: o, D: d, TMax: math.Inf(1), Skip: int32(f)}
+		if i%7 == 0 {
+			qs[i].TMax = 0.1
+		}
+	}
+	hits := make([]Hit, len(qs))
+	var b Batch
+	tree.IntersectBatch(&b, qs, hits)
+	for i, q := range qs {
+		if want := tree.Intersect(q.O, q.D, q.TMax, q.Skip); hits[i] != want {
+			t.Fatalf("ray %d: batch %+v, single %+v", i, hits[i], want)
+		}
+	}
+	if a := testing.AllocsPerRun(10, func() { tree.IntersectBatch(&b, qs, hits) }); a != 0 {
+		t.Errorf("IntersectBatch: %v allocations, want 0", a)
+	}
+}
