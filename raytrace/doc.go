@@ -1,0 +1,44 @@
+// Package raytrace estimates diffuse view factors between the radiation
+// nodes of a mesh by Monte Carlo ray tracing, with a confidence interval on
+// every factor.
+//
+// # Nodes
+//
+// By default each surface is one radiation node; a two-sided surface is two,
+// NAME (its front) and NAME.back; with FacetNodes every facet is its own
+// node (NAME#k, NAME#k.back). Rays that leave the model count toward the
+// ambient; a model in which no ray escapes has no ambient column.
+//
+// # The estimator
+//
+// A ray from node i starts at a point uniformly distributed over the node's
+// area (a facet picked in proportion to its area, then a uniform point on
+// it) and leaves in a cosine-weighted direction about the facet's geometric
+// normal, the direction law of a diffuse emitter. The probability that it
+// first meets node j is the view factor F_ij, so with N_i rays and k_ij hits
+//
+//	F̂_ij = k_ij / N_i,  standard error √(F̂(1−F̂)/N_i),
+//
+// unbiased, with the binomial variance (Howell, "The Monte Carlo method in
+// radiative heat transfer", J. Heat Transfer 120, 1998; methods.md a1–a2).
+// The interval is Wilson's score interval at the chosen confidence (Wilson,
+// J. Amer. Statist. Assoc. 22, 1927), which keeps its coverage for small
+// counts, including k = 0, where the Wald interval collapses to a point.
+//
+// # Determinism
+//
+// Ray r of node i draws its numbers from the counter-based stream
+// (seed, i, r / BatchSize) at offset (r mod BatchSize)·numbersPerRay. A
+// result therefore depends on the mesh, the nodes, the seed and the number
+// of rays per node only — never on the number of threads, the order in
+// which work is done, or how it is split.
+//
+// # Self-hits and back faces
+//
+// The emitting facet is excluded from its own rays, and origins are moved
+// off its plane by more than their rounding error (geometry.OffsetOrigin).
+// A ray that meets the back of a one-sided surface is not a view factor: it
+// is counted as a back-face hit for that emitter and target surface, and
+// reported, because it means flipped normals, a missing second side or a
+// leak in the model.
+package raytrace

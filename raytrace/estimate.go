@@ -1,0 +1,313 @@
+package raytrace
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"runtime"
+	"sync"
+	"sync/atomic"
+	"time"
+
+	"golang.org/x/sync/errgroup"
+
+	"github.com/hemiray/hemiray/mesh"
+	"github.com/hemiray/hemiray/raytrace/bvh"
+	"github.com/hemiray/hemiray/raytrace/sample"
+)
+
+// Options control Estimate. The zero value of each field means its default.
+type Options struct {
+	// Rays is the number of rays per emitting node (the first round when
+	// HalfWidth is set). Default 100,000.
+	Rays int64
+	// HalfWidth > 0 traces in rounds, doubling the rays of every node some
+	// entry of whose row still has a confidence half-width above it, until
+	// none has or the node reaches MaxRays.
+	HalfWidth float64
+	// MaxRays caps the rays per node of a HalfWidth run. Default 64·Rays.
+	MaxRays int64
+	// Seed selects the random streams.
+	Seed uint64
+	// Threads is the number of workers. Default GOMAXPROCS.
+	Threads int
+	// Confidence is the level of the intervals, in (0, 1). Default 0.95.
+	Confidence float64
+	// FacetNodes makes every facet a node.
+	FacetNodes bool
+	// TwoSided names the surfaces whose back is a node of its own.
+	TwoSided []string
+	// BatchSize is the number of rays per random stream and work unit.
+	// Changing it changes the numbers; it is part of the case. Default 65,536.
+	BatchSize int64
+	// MemoryLimit, when positive, is the memory in bytes a facet-mode run may
+	// plan to use; Estimate refuses to start a larger one.
+	MemoryLimit int64
+	// Progress, if set, is called from one goroutine about every
+	// ProgressEvery (default 1 s) while rays are traced.
+	Progress      func(Progress)
+	ProgressEvery time.Duration
+}
+
+// Progress reports how far a trace has come.
+type Progress struct {
+	Rays    int64 // traced so far
+	Planned int64 // planned so far (grows with HalfWidth rounds)
+	Elapsed time.Duration
+}
+
+func (o *Options) defaults() error {
+	if o.Rays == 0 {
+		o.Rays = 100000
+	}
+	if o.MaxRays == 0 {
+		o.MaxRays = 64 * o.Rays
+	}
+	if o.Threads <= 0 {
+		o.Threads = runtime.GOMAXPROCS(0)
+	}
+	if o.Confidence == 0 {
+		o.Confidence = 0.95
+	}
+	if o.BatchSize == 0 {
+		o.BatchSize = 1 << 16
+	}
+	if o.ProgressEvery == 0 {
+		o.ProgressEvery = time.Second
+	}
+	switch {
+	case o.Rays < 0 || o.MaxRays < o.Rays:
+		return fmt.Errorf("rays per node must be positive and at most the maximum (%d, %d)", o.Rays, o.MaxRays)
+	case !(o.Confidence > 0 && o.Confidence < 1):
+		return fmt.Errorf("confidence %v is not in (0, 1)", o.Confidence)
+	case o.HalfWidth < 0 || o.HalfWidth >= 0.5:
+		return fmt.Errorf("half-width %v is not in [0, 0.5)", o.HalfWidth)
+	case o.BatchSize < 64:
+		return fmt.Errorf("batch size %d is below 64", o.BatchSize)
+	}
+	return nil
+}
+
+// Estimate traces rays from every node of m and returns the tallies with
+// their estimates. If ctx is cancelled it stops promptly and returns the
+// work units finished so far with ctx's error.
+func Estimate(ctx context.Context, m *mesh.Mesh, opts Options) (*Result, error) {
+	if err := opts.defaults(); err != nil {
+		return nil, err
+	}
+	if len(m.Facets) == 0 {
+		return nil, errors.New("the model has no facets")
+	}
+	two := map[string]bool{}
+	for _, s := range opts.TwoSided {
+		two[s] = true
+	}
+	em, area := emitters(m)
+	nm, err := buildNodes(m, two, opts.FacetNodes, area)
+	if err != nil {
+		return nil, err
+	}
+	if opts.FacetNodes && opts.MemoryLimit > 0 {
+		if need := plannedBytes(len(m.Facets), len(nm.nodes), opts); need > opts.MemoryLimit {
+			return nil, fmt.Errorf("facet mode with %d nodes needs about %.1f GiB for its tallies and tree, more than the %.1f GiB available; use fewer rays, surface nodes, or a machine with more memory",
+				len(nm.nodes), float64(need)/(1<<30), float64(opts.MemoryLimit)/(1<<30))
+		}
+	}
+	start := time.Now()
+	tree := bvh.Build(m.Vertices, m.Facets, bvh.Options{Threads: opts.Threads})
+	r := &Result{
+		Nodes: nm.nodes, Tally: *newTally(len(nm.nodes)), Options: opts,
+		BuildSeconds: tree.Stats.BuildTime.Seconds(), Threads: opts.Threads,
+		z:            zScore(opts.Confidence),
+	}
+	e := &engine{m: m, tree: tree, em: em, nm: nm, opts: &opts, start: start}
+	e.nodeEm = make([]nodeEmitter, len(nm.nodes))
+	for i := range nm.nodes {
+		e.nodeEm[i] = newNodeEmitter(&nm.nodes[i], area)
+	}
+	traceStart := time.Now()
+	defer func() { r.TraceSeconds = time.Since(traceStart).Seconds() }()
+
+	target := make([]int64, len(nm.nodes))
+	for i := range target {
+		target[i] = opts.Rays
+	}
+	for {
+		units := planUnits(r.Rays, target, opts.BatchSize)
+		if len(units) == 0 {
+			return r, nil
+		}
+		if err := e.run(ctx, units, &r.Tally); err != nil {
+			return r, err
+		}
+		if opts.HalfWidth == 0 {
+			return r, nil
+		}
+		more := false
+		for i := range target {
+			if target[i] < opts.MaxRays && r.RowHalfWidth(i) > opts.HalfWidth {
+				target[i] = min(2*target[i], opts.MaxRays)
+				more = true
+			}
+		}
+		if !more {
+			return r, nil
+		}
+	}
+}
+
+// plannedBytes estimates a facet-mode run's memory: the tree, emitter data,
+// and sparse rows of at most min(nodes, rays) entries of 12 bytes per node.
+func plannedBytes(facets, nodes int, o Options) int64 {
+	rays := o.Rays
+	if o.HalfWidth > 0 {
+		rays = o.MaxRays
+	}
+	perRow := min(int64(nodes), rays+1)
+	return int64(facets)*(40+32+96+16) + int64(nodes)*(perRow*12*2+64)
+}
+
+// unit is one piece of work: rays [lo, hi) of node, all in one batch.
+type unit struct {
+	node   int32
+	lo, hi int64
+}
+
+// planUnits cuts the rays from done[i] to target[i] of every node at batch
+// boundaries.
+func planUnits(done, target []int64, batch int64) []unit {
+	var us []unit
+	for i := range target {
+		for lo := done[i]; lo < target[i]; {
+			hi := min((lo/batch+1)*batch, target[i])
+			us = append(us, unit{int32(i), lo, hi})
+			lo = hi
+		}
+	}
+	return us
+}
+
+// engine is what the workers share, read-only.
+type engine struct {
+	m      *mesh.Mesh
+	tree   *bvh.Tree
+	em     []facetEmitter
+	nm     *nodeMap
+	nodeEm []nodeEmitter
+	opts   *Options
+	start  time.Time
+	traced atomic.Int64
+}
+
+// unitResult is the tally of one finished unit.
+type unitResult struct {
+	u             unit
+	escaped       int64
+	hits, backHit Row
+}
+
+// run traces the units on the worker pool and adds finished ones to t.
+func (e *engine) run(ctx context.Context, units []unit, t *Tally) error {
+	var planned int64
+	for _, u := range units {
+		planned += u.hi - u.lo
+	}
+	base := e.traced.Load()
+	next := atomic.Int64{}
+	results := make([][]unitResult, e.opts.Threads)
+	g, gctx := errgroup.WithContext(ctx)
+	for w := range e.opts.Threads {
+		g.Go(func() error {
+			s := newScratch(len(e.nm.nodes), len(e.m.Surfaces))
+			var b bvh.Batch
+			for {
+				k := next.Add(1) - 1
+				if k >= int64(len(units)) {
+					return nil
+				}
+				res, err := e.trace(gctx, units[k], s, &b)
+				if err != nil {
+					return err
+				}
+				results[w] = append(results[w], res)
+			}
+		})
+	}
+	done := make(chan struct{})
+	var wg sync.WaitGroup
+	if e.opts.Progress != nil {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			tick := time.NewTicker(e.opts.ProgressEvery)
+			defer tick.Stop()
+			for {
+				select {
+				case <-done:
+					return
+				case <-tick.C:
+					e.opts.Progress(Progress{Rays: e.traced.Load(), Planned: base + planned, Elapsed: time.Since(e.start)})
+				}
+			}
+		}()
+	}
+	err := g.Wait()
+	close(done)
+	wg.Wait()
+	// Sum whatever units finished; integer sums do not depend on the order.
+	for _, rs := range results {
+		for _, r := range rs {
+			i := r.u.node
+			t.Rays[i] += r.u.hi - r.u.lo
+			t.Escaped[i] += r.escaped
+			t.Hits[i] = t.Hits[i].Add(r.hits)
+			t.Back[i] = t.Back[i].Add(r.backHit)
+		}
+	}
+	if e.opts.Progress != nil {
+		e.opts.Progress(Progress{Rays: e.traced.Load(), Planned: base + planned, Elapsed: time.Since(e.start)})
+	}
+	return err
+}
+
+// chunk is how many rays are generated and traced together.
+const chunk = 64
+
+// trace runs one unit. Its rays use stream (seed, node, batch) from offset
+// (lo mod batch)·numbersPerRay, so any worker produces the same numbers.
+func (e *engine) trace(ctx context.Context, u unit, s *scratch, b *bvh.Batch) (unitResult, error) {
+	batch := e.opts.BatchSize
+	st := sample.NewStream(e.opts.Seed, int64(u.node), u.lo/batch)
+	st.Skip(uint64(u.lo%batch) * numbersPerRay)
+	ne := &e.nodeEm[u.node]
+	var qs [chunk]bvh.Query
+	var hs [chunk]bvh.Hit
+	res := unitResult{u: u}
+	front, back, surf := e.nm.front, e.nm.back, e.m.SurfaceOf
+	for lo := u.lo; lo < u.hi; lo += chunk {
+		if err := ctx.Err(); err != nil {
+			return res, err
+		}
+		n := int(min(chunk, u.hi-lo))
+		for k := range n {
+			qs[k] = ne.ray(&st, e.em)
+		}
+		e.tree.IntersectBatch(b, qs[:n], hs[:n])
+		for k := range n {
+			h := &hs[k]
+			switch {
+			case h.Facet < 0:
+				res.escaped++
+			case h.Front && front[h.Facet] >= 0:
+				s.hit(front[h.Facet])
+			case !h.Front && back[h.Facet] >= 0:
+				s.hit(back[h.Facet])
+			default:
+				s.backHit(surf[h.Facet])
+			}
+		}
+		e.traced.Add(int64(n))
+	}
+	res.hits, res.backHit = s.take()
+	return res, nil
+}

@@ -1,0 +1,215 @@
+package raytrace
+
+import (
+	"context"
+	"math"
+	"reflect"
+	"testing"
+
+	"github.com/hemiray/hemiray/geometry"
+	"github.com/hemiray/hemiray/mesh"
+)
+
+// Every catalogue configuration against its closed form:
+// |F̂ − F| ≤ 4·stderr + the case's stated tessellation bound.
+func TestReferenceCases(t *testing.T) {
+	rays := int64(1000000)
+	if testing.Short() {
+		rays = 50000
+	}
+	for _, c := range ReferenceCases() {
+		t.Run(c.Name, func(t *testing.T) {
+			res, err := c.Check(context.Background(), Options{Rays: rays, Seed: 1})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !res.Pass {
+				t.Errorf("F(%s→%s) = %.5f ± %.5f (1σ), reference %.5f (%s), bound %.2g: %.1fσ beyond the bound",
+					c.From, c.To, res.Estimate.F, res.Estimate.StdErr, c.Reference, c.Source, c.Bound, res.Score)
+			}
+			// A bound of a percent or more would let a wrong estimator pass.
+			if c.Bound >= 0.01*c.Reference {
+				t.Errorf("tessellation bound %.3g is too loose to test anything", c.Bound)
+			}
+		})
+	}
+}
+
+// Over many seeds, 95 % Wilson intervals must contain the exact value in
+// about 95 % of runs (92–98 % accepted: ±2.7 binomial standard deviations at
+// 400 runs). Flat squares: the exact value is the closed form (Howell C-11).
+func TestIntervalCoverage(t *testing.T) {
+	m := ReferenceCases()[0].Mesh
+	exact := geometry.FParallelRectangles(1, 1, 1)
+	const runs = 400
+	covered := 0
+	for seed := range uint64(runs) {
+		r, err := Estimate(context.Background(), m, Options{Rays: 2000, Seed: seed + 1000})
+		if err != nil {
+			t.Fatal(err)
+		}
+		f := r.Factor(r.NodeIndex("bottom"), r.NodeIndex("top"))
+		if f.Lo <= exact && exact <= f.Hi {
+			covered++
+		}
+	}
+	if c := float64(covered) / runs; c < 0.92 || c > 0.98 {
+		t.Errorf("coverage %.3f over %d seeds, want 0.92–0.98", c, runs)
+	}
+}
+
+// In a closed box every ray lands on a face: rows sum to exactly 1, there is
+// no ambient column, and A_i·F_ij = A_j·F_ji within the combined error
+// (reciprocity, any radiation textbook).
+func TestClosedEnclosure(t *testing.T) {
+	m := mesh.Box("", geometry.Box{Max: geometry.Vec3{X: 2, Y: 1, Z: 0.5}}, 3, true)
+	r, err := Estimate(context.Background(), m, Options{Rays: 100000, Seed: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.HasAmbient() {
+		t.Error("closed box has an ambient column")
+	}
+	for i := range r.Nodes {
+		if s := r.RowSum(i); s != 1 {
+			t.Errorf("row %s sums to %v, want 1", r.Nodes[i].Name, s)
+		}
+		for j := range r.Nodes {
+			fij, fji := r.Factor(i, j), r.Factor(j, i)
+			ai, aj := r.Nodes[i].Area, r.Nodes[j].Area
+			se := math.Hypot(ai*fij.StdErr, aj*fji.StdErr)
+			if d := math.Abs(ai*fij.F - aj*fji.F); d > 4*se+1e-12 {
+				t.Errorf("A·F %s↔%s differ by %.3g > 4σ = %.3g", r.Nodes[i].Name, r.Nodes[j].Name, d, 4*se)
+			}
+		}
+	}
+}
+
+// The same seed gives the same tallies with 1 and with 3 threads and with
+// another batch split of the work.
+func TestDeterminism(t *testing.T) {
+	m := ReferenceCases()[1].Mesh
+	var got []*Result
+	for _, th := range []int{1, 3} {
+		r, err := Estimate(context.Background(), m, Options{Rays: 30000, Seed: 9, Threads: th, BatchSize: 4096})
+		if err != nil {
+			t.Fatal(err)
+		}
+		got = append(got, r)
+	}
+	if !reflect.DeepEqual(got[0].Tally, got[1].Tally) {
+		t.Errorf("tallies differ between 1 and 3 threads:\n%+v\n%+v", got[0].Tally, got[1].Tally)
+	}
+}
+
+// A box with one face flipped: rays from the others hit its back, which is
+// counted per surface and never enters a view factor.
+func TestBackFaceHits(t *testing.T) {
+	m := mesh.Box("", geometry.Box{Max: geometry.Vec3{X: 1, Y: 1, Z: 1}}, 2, true)
+	top := m.SurfaceIndex("zmax")
+	for _, f := range m.Surfaces[top].Facets {
+		v := &m.Facets[f]
+		v[1], v[2] = v[2], v[1]
+	}
+	r, err := Estimate(context.Background(), m, Options{Rays: 20000, Seed: 4})
+	if err != nil {
+		t.Fatal(err)
+	}
+	names := make([]string, len(m.Surfaces))
+	for i, s := range m.Surfaces {
+		names[i] = s.Name
+	}
+	bf := r.BackFaces(names)
+	if len(bf) == 0 || bf[0].Surface != "zmax" {
+		t.Fatalf("back faces = %+v, want zmax", bf)
+	}
+	// Opposite unit squares see each other with F = 0.19982 (Howell C-11).
+	floor := r.NodeIndex("zmin")
+	if f := float64(r.Back[floor].At(int32(top))) / float64(r.Rays[floor]); math.Abs(f-0.19982) > 4*math.Sqrt(0.2*0.8/20000) {
+		t.Errorf("back-hit fraction from the floor = %v, want ≈ 0.1998", f)
+	}
+	if r.Factor(floor, int(r.NodeIndex("zmax"))).Hits != 0 {
+		t.Error("back-face hits entered the view factor")
+	}
+	if len(r.Warnings(names)) == 0 {
+		t.Error("no warning for 20 % back-face hits")
+	}
+}
+
+func TestTwoSidedAndFacetNodes(t *testing.T) {
+	// A plate between two opposed squares; two-sided, its back sees the lower square.
+	v := func(x, y, z float64) geometry.Vec3 { return geometry.Vec3{X: x, Y: y, Z: z} }
+	m, err := join(mesh.Rectangle("low", v(0, 0, 0), v(1, 0, 0), v(0, 1, 0), 2, 2),
+		mesh.Rectangle("plate", v(0, 0, 1), v(1, 0, 0), v(0, 1, 0), 2, 2),
+		mesh.Rectangle("high", v(0, 0, 2), v(0, 1, 0), v(1, 0, 0), 2, 2))
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := Estimate(context.Background(), m, Options{Rays: 50000, Seed: 2, TwoSided: []string{"plate"}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	exact := geometry.FParallelRectangles(1, 1, 1) // Howell C-11
+	for _, p := range [][2]string{{"low", "plate.back"}, {"plate", "high"}, {"plate.back", "low"}} {
+		f := r.Factor(r.NodeIndex(p[0]), r.NodeIndex(p[1]))
+		if math.Abs(f.F-exact) > 4*f.StdErr {
+			t.Errorf("F(%s→%s) = %v ± %v, want %v", p[0], p[1], f.F, f.StdErr, exact)
+		}
+	}
+	// Facet nodes: 12 facets + 4 back sides; rows still sum to 1 with the ambient.
+	r, err = Estimate(context.Background(), m, Options{Rays: 2000, Seed: 2, TwoSided: []string{"plate"}, FacetNodes: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(r.Nodes) != 32 || r.Nodes[8].Name != "plate#0" || r.Nodes[9].Name != "plate#0.back" {
+		t.Fatalf("facet nodes: %d, %s %s", len(r.Nodes), r.Nodes[8].Name, r.Nodes[9].Name)
+	}
+	for i := range r.Nodes {
+		if s := r.RowSum(i); s != 1 {
+			t.Errorf("row %s sums to %v", r.Nodes[i].Name, s)
+		}
+	}
+}
+
+func TestHalfWidthRounds(t *testing.T) {
+	m := ReferenceCases()[0].Mesh
+	r, err := Estimate(context.Background(), m, Options{Rays: 1000, HalfWidth: 0.01, Seed: 5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range r.Nodes {
+		if w := r.RowHalfWidth(i); w > 0.01 {
+			t.Errorf("node %s: half-width %v > 0.01 after %d rays", r.Nodes[i].Name, w, r.Rays[i])
+		}
+		// a3: n ≥ z²F(1−F)/H² ≈ 6,100 for F≈0.2, fewer than 64,000 when doubling from 1000.
+		if r.Rays[i] != 8000 && r.Rays[i] != 16000 {
+			t.Errorf("node %s: %d rays, want the first doubling above 6,100 (8,000) or the next", r.Nodes[i].Name, r.Rays[i])
+		}
+	}
+}
+
+func TestCancel(t *testing.T) {
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	_, err := Estimate(ctx, ReferenceCases()[0].Mesh, Options{Rays: 1e6})
+	if err == nil {
+		t.Error("cancelled Estimate returned no error")
+	}
+}
+
+func TestWilson(t *testing.T) {
+	// k = 0: [0, z²/(n + z²)] (methods a2; Brown, Cai & DasGupta 2001).
+	lo, hi := Wilson(0, 100, 1.96)
+	if lo != 0 || math.Abs(hi-1.96*1.96/(100+1.96*1.96)) > 1e-15 {
+		t.Errorf("Wilson(0,100) = [%v, %v]", lo, hi)
+	}
+	// k = 5, n = 10 at 95 %: [0.2366, 0.7634] (Wilson interval tables, e.g.
+	// Newcombe, Statistics in Medicine 17, 1998, table I; from memory).
+	lo, hi = Wilson(5, 10, zScore(0.95))
+	if math.Abs(lo-0.2366) > 1e-4 || math.Abs(hi-0.7634) > 1e-4 {
+		t.Errorf("Wilson(5,10) = [%.4f, %.4f], want [0.2366, 0.7634]", lo, hi)
+	}
+	if z := zScore(0.95); math.Abs(z-1.959964) > 1e-6 {
+		t.Errorf("z(0.95) = %v", z)
+	}
+}

@@ -1,0 +1,79 @@
+package raytrace
+
+import (
+	"fmt"
+
+	"github.com/hemiray/hemiray/mesh"
+)
+
+// Node is one radiation node: a surface side, or a facet side in facet mode.
+type Node struct {
+	Name    string
+	Surface int     // index into the mesh's surfaces
+	Back    bool    // the node is the back side of a two-sided surface
+	Facets  []int32 // the facets that emit for this node
+	Area    float64 // m², of the rounded triangles the tracer holds
+}
+
+// nodeMap says which node each side of each facet belongs to.
+type nodeMap struct {
+	nodes []Node
+	front []int32 // node of each facet's front
+	back  []int32 // node of each facet's back, −1 for one-sided surfaces
+}
+
+// buildNodes makes the nodes of m. twoSided names the two-sided surfaces.
+// Facets of zero area cannot emit (and no ray can hit them), so they belong
+// to no node's emitters; in facet mode they are no node at all.
+func buildNodes(m *mesh.Mesh, twoSided map[string]bool, facetNodes bool, area []float64) (*nodeMap, error) {
+	for name := range twoSided {
+		if m.SurfaceIndex(name) < 0 {
+			return nil, fmt.Errorf("two-sided surface %q is not in the model", name)
+		}
+	}
+	nm := &nodeMap{front: make([]int32, len(m.Facets)), back: make([]int32, len(m.Facets))}
+	add := func(name string, s int, back bool, facets []int32) int32 {
+		a := 0.0
+		for _, f := range facets {
+			a += area[f]
+		}
+		nm.nodes = append(nm.nodes, Node{Name: name, Surface: s, Back: back, Facets: facets, Area: a})
+		return int32(len(nm.nodes) - 1)
+	}
+	for s, surf := range m.Surfaces {
+		two := twoSided[surf.Name]
+		var emitting []int32
+		for _, f := range surf.Facets {
+			if area[f] > 0 {
+				emitting = append(emitting, f)
+			}
+		}
+		if len(emitting) == 0 {
+			return nil, fmt.Errorf("surface %q has zero area (hemiray inspect lists its degenerate facets)", surf.Name)
+		}
+		if !facetNodes {
+			fi := add(surf.Name, s, false, emitting)
+			bi := int32(-1)
+			if two {
+				bi = add(surf.Name+".back", s, true, emitting)
+			}
+			for _, f := range surf.Facets {
+				nm.front[f], nm.back[f] = fi, bi
+			}
+			continue
+		}
+		for k, f := range surf.Facets {
+			nm.front[f], nm.back[f] = -1, -1
+			if area[f] == 0 {
+				continue
+			}
+			one := surf.Facets[k : k+1 : k+1]
+			name := fmt.Sprintf("%s#%d", surf.Name, k)
+			nm.front[f], nm.back[f] = add(name, s, false, one), -1
+			if two {
+				nm.back[f] = add(name+".back", s, true, one)
+			}
+		}
+	}
+	return nm, nil
+}

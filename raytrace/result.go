@@ -1,0 +1,162 @@
+package raytrace
+
+import (
+	"fmt"
+	"math"
+	"sort"
+)
+
+// Result is the outcome of Estimate: the nodes, the raw tallies and what is
+// needed to turn them into view factors with intervals.
+type Result struct {
+	Nodes []Node
+	Tally
+	Options      Options
+	BuildSeconds float64
+	TraceSeconds float64
+	Threads      int
+	z            float64
+}
+
+// Factor is one view-factor estimate.
+type Factor struct {
+	F         float64 // hits / rays
+	StdErr    float64 // √(F(1−F)/rays)
+	Lo, Hi    float64 // Wilson interval at the result's confidence
+	HalfWidth float64 // (Hi − Lo)/2
+	Hits      int64
+	Rays      int64
+}
+
+// Z returns the standard-normal quantile of the result's confidence.
+func (r *Result) Z() float64 { return r.z }
+
+// Ambient is the column index of the ambient node: len(Nodes).
+func (r *Result) Ambient() int { return len(r.Nodes) }
+
+// HasAmbient reports whether any ray left the model.
+func (r *Result) HasAmbient() bool {
+	for _, e := range r.Escaped {
+		if e > 0 {
+			return true
+		}
+	}
+	return false
+}
+
+// RaysTraced returns the total number of rays.
+func (r *Result) RaysTraced() int64 {
+	var n int64
+	for _, x := range r.Rays {
+		n += x
+	}
+	return n
+}
+
+func (r *Result) factor(k, n int64) Factor {
+	f := Factor{Hits: k, Rays: n}
+	if n == 0 {
+		return Factor{Lo: 0, Hi: 1, HalfWidth: 0.5}
+	}
+	f.F = float64(k) / float64(n)
+	f.StdErr = math.Sqrt(f.F * (1 - f.F) / float64(n))
+	f.Lo, f.Hi = Wilson(k, n, r.z)
+	f.HalfWidth = (f.Hi - f.Lo) / 2
+	return f
+}
+
+// Factor returns the estimate of F from node i to node j; j = Ambient()
+// gives the fraction of i's rays that left the model.
+func (r *Result) Factor(i, j int) Factor {
+	if j == r.Ambient() {
+		return r.factor(r.Escaped[i], r.Rays[i])
+	}
+	return r.factor(r.Hits[i].At(int32(j)), r.Rays[i])
+}
+
+// Row calls fn for every non-zero entry of row i, ambient last.
+func (r *Result) Row(i int, fn func(j int, f Factor)) {
+	row := &r.Hits[i]
+	for k, c := range row.Col {
+		fn(int(c), r.factor(row.Count[k], r.Rays[i]))
+	}
+	if r.Escaped[i] > 0 {
+		fn(r.Ambient(), r.factor(r.Escaped[i], r.Rays[i]))
+	}
+}
+
+// RowHalfWidth returns the largest interval half-width in row i, zero
+// entries included (their Wilson interval is [0, z²/(n+z²)]).
+func (r *Result) RowHalfWidth(i int) float64 {
+	cols := len(r.Nodes)
+	if r.HasAmbient() {
+		cols++
+	}
+	w, nonzero := 0.0, 0
+	r.Row(i, func(_ int, f Factor) {
+		w = math.Max(w, f.HalfWidth)
+		nonzero++
+	})
+	if nonzero < cols {
+		w = math.Max(w, r.factor(0, r.Rays[i]).HalfWidth)
+	}
+	return w
+}
+
+// RowSum returns Σ_j F_ij over all nodes and the ambient. It is 1 but for
+// the rays lost to back-face hits.
+func (r *Result) RowSum(i int) float64 {
+	if r.Rays[i] == 0 {
+		return 0
+	}
+	return float64(r.Hits[i].Sum()+r.Escaped[i]) / float64(r.Rays[i])
+}
+
+// BackFaceNote describes one emitter's back-face hits on one surface.
+type BackFaceNote struct {
+	Emitter  string  `json:"emitter"`
+	Surface  string  `json:"surface"`
+	Hits     int64   `json:"hits"`
+	Fraction float64 `json:"fraction_of_rays"`
+}
+
+// BackFaces lists every (emitter, surface) pair with back-face hits,
+// largest fraction first. surfaces are the mesh's surface names.
+func (r *Result) BackFaces(surfaces []string) []BackFaceNote {
+	var out []BackFaceNote
+	for i, row := range r.Back {
+		for k, s := range row.Col {
+			out = append(out, BackFaceNote{r.Nodes[i].Name, surfaces[s], row.Count[k], float64(row.Count[k]) / float64(r.Rays[i])})
+		}
+	}
+	sort.SliceStable(out, func(a, b int) bool { return out[a].Fraction > out[b].Fraction })
+	return out
+}
+
+// BackFaceThreshold is the fraction of an emitter's rays hitting backs above
+// which Warnings speaks up.
+const BackFaceThreshold = 0.001
+
+// Warnings returns the messages a user should see: back-face hits above
+// BackFaceThreshold of an emitter's rays, with the likely fixes.
+func (r *Result) Warnings(surfaces []string) []string {
+	var w []string
+	for _, b := range r.BackFaces(surfaces) {
+		if b.Fraction <= BackFaceThreshold {
+			continue
+		}
+		w = append(w, fmt.Sprintf("%.3g%% of the rays from %s hit the back of one-sided surface %s: its normals may be flipped (flip it), it may need a second side (declare it two-sided), or rays leak through a gap into the inside of a part",
+			100*b.Fraction, b.Emitter, b.Surface))
+	}
+	return w
+}
+
+// NodeIndex returns the index of the node called name, or −1.
+func (r *Result) NodeIndex(name string) int {
+	for i, n := range r.Nodes {
+		if n.Name == name {
+			return i
+		}
+	}
+	return -1
+}
