@@ -118,7 +118,7 @@ func Estimate(ctx context.Context, m *mesh.Mesh, opts Options) (*Result, error) 
 	r := &Result{
 		Nodes: nm.nodes, Tally: *newTally(len(nm.nodes)), Options: opts,
 		BuildSeconds: tree.Stats.BuildTime.Seconds(), Threads: opts.Threads,
-		z:            zScore(opts.Confidence),
+		z: zScore(opts.Confidence),
 	}
 	e := &engine{m: m, tree: tree, em: em, nm: nm, opts: &opts, start: start}
 	e.nodeEm = make([]nodeEmitter, len(nm.nodes))

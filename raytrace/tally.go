@@ -70,7 +70,7 @@ func newTally(nodes int) *Tally {
 
 // scratch accumulates one work unit densely, then emits sparse rows.
 type scratch struct {
-	hits, back       []int64
+	hits, back        []int64
 	touched, touchedB []int32
 }
 
