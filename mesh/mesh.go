@@ -145,3 +145,12 @@ func (m *Mesh) sourceName(src int) string {
 	}
 	return "a built shape"
 }
+
+// FlipSurface reverses the winding of every facet of surface s, turning its
+// front to the other side (for CAD exports whose normals point the wrong way).
+func (m *Mesh) FlipSurface(s int) {
+	for _, f := range m.Surfaces[s].Facets {
+		v := &m.Facets[f]
+		v[1], v[2] = v[2], v[1]
+	}
+}

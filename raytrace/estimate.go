@@ -16,6 +16,10 @@ import (
 	"github.com/hemiray/hemiray/raytrace/sample"
 )
 
+// DefaultBatchSize is the rays per random stream and work unit unless
+// Options.BatchSize says otherwise.
+const DefaultBatchSize = 1 << 16
+
 // Options control Estimate. The zero value of each field means its default.
 type Options struct {
 	// Rays is the number of rays per emitting node (the first round when
@@ -70,7 +74,7 @@ func (o *Options) defaults() error {
 		o.Confidence = 0.95
 	}
 	if o.BatchSize == 0 {
-		o.BatchSize = 1 << 16
+		o.BatchSize = DefaultBatchSize
 	}
 	if o.ProgressEvery == 0 {
 		o.ProgressEvery = time.Second
@@ -106,6 +110,14 @@ func Estimate(ctx context.Context, m *mesh.Mesh, opts Options) (*Result, error) 
 	nm, err := buildNodes(m, two, opts.FacetNodes, area)
 	if err != nil {
 		return nil, err
+	}
+	// Report the areas of the mesh as given; the rounded ones (within 1e-7)
+	// only weight the choice of emitting facet.
+	for i := range nm.nodes {
+		nm.nodes[i].Area = 0
+		for _, f := range nm.nodes[i].Facets {
+			nm.nodes[i].Area += m.FacetArea(int(f))
+		}
 	}
 	if opts.FacetNodes && opts.MemoryLimit > 0 {
 		if need := plannedBytes(len(m.Facets), len(nm.nodes), opts); need > opts.MemoryLimit {

@@ -12,7 +12,7 @@ type Node struct {
 	Surface int     // index into the mesh's surfaces
 	Back    bool    // the node is the back side of a two-sided surface
 	Facets  []int32 // the facets that emit for this node
-	Area    float64 // m², of the rounded triangles the tracer holds
+	Area    float64 // m²
 }
 
 // nodeMap says which node each side of each facet belongs to.
