@@ -1,0 +1,267 @@
+package smooth
+
+import (
+	"errors"
+	"fmt"
+	"math"
+)
+
+// Entry is a count k in column J of a row.
+type Entry struct {
+	J int32
+	K int64
+}
+
+// Counts are the raw tallies of a trace: Rays[i] rays from node i, Hits[i]
+// its hits by target node (columns increasing), Ambient[i] the rays that left
+// the model (nil or zeros for a closed model).
+type Counts struct {
+	Area    []float64
+	Rays    []int64
+	Hits    [][]Entry
+	Ambient []int64
+}
+
+// Factor is a smoothed view factor with the distance it moved from the raw
+// estimate, in standard errors of the raw estimate.
+type Factor struct {
+	J     int32
+	F     float64
+	Moved float64
+}
+
+// Result is a smoothed matrix and its diagnostics.
+type Result struct {
+	F       [][]Factor // per row, columns increasing, zero pairs omitted
+	Ambient []float64  // F_i,amb
+	// MovedAmbient is how far F_i,amb moved, in standard errors.
+	MovedAmbient []float64
+	// Reciprocity is max |A_i F_ij − A_j F_ji| / max A_i F_ij; Summation is
+	// max |1 − Σ_j F_ij − F_i,amb|; before and after smoothing.
+	ReciprocityBefore, ReciprocityAfter float64
+	SummationBefore, SummationAfter     float64
+	MaxMoved                            float64 // largest |moved| over all entries
+	Iterations                          int
+}
+
+// ErrNotConverged is returned when Newton's method fails to meet the tolerance.
+var ErrNotConverged = errors.New("smooth: Newton iteration did not converge")
+
+// pair is an unordered node pair i < j (or i == j) with its pooled count.
+type pair struct {
+	i, j int32
+	c    float64
+}
+
+// Smooth returns the constrained maximum-likelihood matrix for the counts.
+func Smooth(in Counts) (*Result, error) {
+	n := len(in.Area)
+	if len(in.Rays) != n || len(in.Hits) != n || (in.Ambient != nil && len(in.Ambient) != n) {
+		panic("smooth: lengths of Area, Rays, Hits and Ambient differ")
+	}
+	amb := func(i int) float64 {
+		if in.Ambient == nil {
+			return 0
+		}
+		return float64(in.Ambient[i])
+	}
+	for i := range n {
+		if !(in.Area[i] > 0) || in.Rays[i] <= 0 {
+			return nil, fmt.Errorf("smooth: node %d has area %v and %d rays; both must be positive", i, in.Area[i], in.Rays[i])
+		}
+		var hits int64
+		for _, e := range in.Hits[i] {
+			hits += e.K
+		}
+		if hits == 0 && amb(i) == 0 {
+			return nil, fmt.Errorf("smooth: node %d has no ray that reached a node or the ambient", i)
+		}
+	}
+	// Pool the counts of each unordered pair; self counts go to the diagonal.
+	pooled := map[[2]int32]float64{}
+	for i := range n {
+		for _, e := range in.Hits[i] {
+			a, b := int32(i), e.J
+			if a > b {
+				a, b = b, a
+			}
+			pooled[[2]int32{a, b}] += float64(e.K)
+		}
+	}
+	var offd []pair
+	diagC := make([]float64, n) // k_ii + k_i,amb
+	for k, c := range pooled {
+		if k[0] == k[1] {
+			diagC[k[0]] += c
+		} else {
+			offd = append(offd, pair{k[0], k[1], c})
+		}
+	}
+	for i := range n {
+		diagC[i] += amb(i)
+	}
+	lam := make([]float64, n)
+	for i := range n {
+		lam[i] = float64(in.Rays[i]) / in.Area[i]
+	}
+	iters, err := newton(lam, in.Area, offd, diagC)
+	if err != nil {
+		return nil, err
+	}
+	return assemble(in, lam, iters), nil
+}
+
+// dual returns D(λ), or +Inf outside λ > 0.
+func dual(lam, area []float64, offd []pair, diagC []float64) float64 {
+	d := 0.0
+	for i, l := range lam {
+		if !(l > 0) {
+			return math.Inf(1)
+		}
+		d += l * area[i]
+		if diagC[i] > 0 {
+			d -= diagC[i] * math.Log(l)
+		}
+	}
+	for _, p := range offd {
+		d -= p.c * math.Log(lam[p.i]+lam[p.j])
+	}
+	return d
+}
+
+// gradient writes ∇D = A_i − Σ_j s_ij − s_i,amb into g and returns its
+// largest component relative to the area.
+func gradient(g, lam, area []float64, offd []pair, diagC []float64) float64 {
+	for i := range g {
+		g[i] = area[i] - diagC[i]/lam[i]
+	}
+	for _, p := range offd {
+		s := p.c / (lam[p.i] + lam[p.j])
+		g[p.i] -= s
+		g[p.j] -= s
+	}
+	r := 0.0
+	for i := range g {
+		r = math.Max(r, math.Abs(g[i])/area[i])
+	}
+	return r
+}
+
+// hessMul writes H·x into y: H_ii = Σ_j c_ij/(λ_i+λ_j)² + diagC_i/λ_i²,
+// H_ij = c_ij/(λ_i+λ_j)².
+func hessMul(y, x, lam []float64, offd []pair, diagC []float64) {
+	for i := range y {
+		y[i] = diagC[i] / (lam[i] * lam[i]) * x[i]
+	}
+	for _, p := range offd {
+		w := p.c / ((lam[p.i] + lam[p.j]) * (lam[p.i] + lam[p.j]))
+		s := w * (x[p.i] + x[p.j])
+		y[p.i] += s
+		y[p.j] += s
+	}
+}
+
+const (
+	tolerance = 1e-13 // summation residual relative to area
+	maxNewton = 200
+)
+
+// newton minimises D over λ in place and returns the iterations used.
+func newton(lam, area []float64, offd []pair, diagC []float64) (int, error) {
+	n := len(lam)
+	g, step, trial := make([]float64, n), make([]float64, n), make([]float64, n)
+	d := dual(lam, area, offd, diagC)
+	gt := make([]float64, n)
+	for it := 1; it <= maxNewton; it++ {
+		gnorm := gradient(g, lam, area, offd, diagC)
+		if gnorm < tolerance {
+			return it - 1, nil
+		}
+		// Newton step: H·step = −g, by conjugate gradients preconditioned
+		// with the diagonal of H.
+		conjugateGradient(step, g, lam, offd, diagC)
+		// Backtracking line search keeping λ > 0 (Armijo condition). Near
+		// the optimum D changes by less than its rounding; a step that
+		// shrinks the residual is then accepted on that ground.
+		slope := 0.0
+		for i := range g {
+			slope += g[i] * step[i]
+		}
+		t := 1.0
+		for k := 0; ; k++ {
+			for i := range lam {
+				trial[i] = lam[i] + t*step[i]
+			}
+			dt := dual(trial, area, offd, diagC)
+			if dt <= d+1e-4*t*slope || (!math.IsInf(dt, 1) && gradient(gt, trial, area, offd, diagC) < 0.5*gnorm) {
+				copy(lam, trial)
+				d = dt
+				break
+			}
+			if t *= 0.5; k > 60 {
+				return it, ErrNotConverged
+			}
+		}
+	}
+	if gradient(g, lam, area, offd, diagC) < 1e-9 {
+		return maxNewton, nil
+	}
+	return maxNewton, ErrNotConverged
+}
+
+// conjugateGradient solves H·x = −g for x.
+func conjugateGradient(x, g, lam []float64, offd []pair, diagC []float64) {
+	n := len(x)
+	diag := make([]float64, n)
+	for i := range diag {
+		diag[i] = diagC[i] / (lam[i] * lam[i])
+	}
+	for _, p := range offd {
+		w := p.c / ((lam[p.i] + lam[p.j]) * (lam[p.i] + lam[p.j]))
+		diag[p.i] += w
+		diag[p.j] += w
+	}
+	r, z, p, hp := make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
+	rz := 0.0
+	for i := range x {
+		x[i] = 0
+		r[i] = -g[i]
+		z[i] = r[i] / diag[i]
+		p[i] = z[i]
+		rz += r[i] * z[i]
+	}
+	r0 := math.Sqrt(dot(r, r))
+	for k := 0; k < 10*n+100; k++ {
+		hessMul(hp, p, lam, offd, diagC)
+		php := dot(p, hp)
+		if !(php > 0) {
+			return
+		}
+		a := rz / php
+		for i := range x {
+			x[i] += a * p[i]
+			r[i] -= a * hp[i]
+		}
+		if math.Sqrt(dot(r, r)) <= 1e-15*r0 {
+			return
+		}
+		rzNew := 0.0
+		for i := range r {
+			z[i] = r[i] / diag[i]
+			rzNew += r[i] * z[i]
+		}
+		b := rzNew / rz
+		rz = rzNew
+		for i := range p {
+			p[i] = z[i] + b*p[i]
+		}
+	}
+}
+
+func dot(a, b []float64) float64 {
+	s := 0.0
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
