@@ -1,0 +1,375 @@
+package exchange
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// DenseLimit is the number of unknowns up to which Solve factorises a dense
+// matrix; larger systems are solved iteratively on a sparse matrix.
+const DenseLimit = 3000
+
+// denseLimit is DenseLimit, lowered by tests to exercise the sparse path.
+var denseLimit = DenseLimit
+
+// ErrNotConverged is returned when the iterative solver misses its tolerance.
+var ErrNotConverged = errors.New("exchange: iterative solver did not converge")
+
+// system is the assembled linear system in sparse triplet form.
+type system struct {
+	n    int
+	rows []int
+	cols []int
+	vals []float64
+	rhs  []float64
+}
+
+func (s *system) add(r, c int, v float64) {
+	s.rows, s.cols, s.vals = append(s.rows, r), append(s.cols, c), append(s.vals, v)
+}
+
+// Solve solves the enclosure.
+func Solve(p Problem) (*Solution, error) {
+	group, err := p.check()
+	if err != nil {
+		return nil, err
+	}
+	n := len(p.Area)
+	cond := func(k int) Condition {
+		if g := group[k]; g >= 0 {
+			return p.GroupCond[g]
+		}
+		return p.Cond[k]
+	}
+	eb := func(t float64) float64 { return Sigma * t * t * t * t }
+	ambE := eb(p.AmbientT)
+	fAmb := func(k int) float64 {
+		if p.Ambient == nil {
+			return 0
+		}
+		return p.Ambient[k]
+	}
+
+	// Unknowns: J of every node whose radiosity is not known, and E = σT⁴ of
+	// every group without a fixed temperature. A black node with a fixed
+	// temperature has J = σT⁴ known (−1); a black member of a group has
+	// J = E_group and takes the group's unknown.
+	varJ := make([]int, n)
+	varE := make([]int, len(p.Groups))
+	nv := 0
+	for g := range p.Groups {
+		varE[g] = -1
+		if p.GroupCond[g].Kind != Temperature {
+			varE[g] = nv
+			nv++
+		}
+	}
+	knownJ := make([]float64, n)
+	for k := range n {
+		c, g := cond(k), group[k]
+		switch {
+		case c.Kind == Temperature && p.Emissivity[k] == 1:
+			varJ[k] = -1
+			knownJ[k] = eb(c.Value)
+		case g >= 0 && varE[g] >= 0 && p.Emissivity[k] == 1:
+			varJ[k] = varE[g]
+		default:
+			varJ[k] = nv
+			nv++
+		}
+	}
+	s := &system{n: nv, rhs: make([]float64, nv)}
+	// irradiation adds row r's terms −a·Σ_j F_kj J_j + (RHS) a·F_amb·σT_amb⁴.
+	irradiation := func(r, k int, a float64) {
+		for _, e := range p.F[k] {
+			if v := varJ[e.J]; v >= 0 {
+				s.add(r, v, -a*e.F)
+			} else {
+				s.rhs[r] += a * e.F * knownJ[e.J]
+			}
+		}
+		s.rhs[r] += a * fAmb(k) * ambE
+	}
+	for g, c := range p.GroupCond {
+		if varE[g] >= 0 && c.Kind == HeatFlow {
+			s.rhs[varE[g]] += c.Value
+		}
+	}
+	for k := range n {
+		c, g := cond(k), group[k]
+		a, eps := p.Area[k], p.Emissivity[k]
+		rho := 1 - eps
+		switch {
+		case varJ[k] < 0:
+			// Known radiosity: no row.
+		case c.Kind == Temperature && g < 0 || c.Kind == Temperature && varE[g] < 0:
+			r := varJ[k]
+			s.add(r, r, a/rho)
+			irradiation(r, k, a)
+			s.rhs[r] += a * eps / rho * eb(c.Value)
+		case g >= 0 && eps < 1:
+			// Gray member of a shared-temperature group:
+			// (A/ρ)J − AΣFJ − (Aε/ρ)E = A F_amb σT_amb⁴, and its share
+			// Q_k = (Aε/ρ)(E − J_k) of the group row.
+			r, e := varJ[k], varE[g]
+			w := a * eps / rho
+			s.add(r, r, a/rho)
+			s.add(r, e, -w)
+			irradiation(r, k, a)
+			s.add(e, e, w)
+			s.add(e, r, -w)
+		case g >= 0:
+			// Black member: J = E, and Q_k = A(E − ΣFJ − F_amb σT_amb⁴)
+			// joins the group row.
+			e := varE[g]
+			s.add(e, e, a)
+			irradiation(e, k, a)
+		default:
+			// Fixed flux, flow or adiabatic.
+			r := varJ[k]
+			s.add(r, r, a)
+			irradiation(r, k, a)
+			switch c.Kind {
+			case HeatFlux:
+				s.rhs[r] += c.Value * a
+			case HeatFlow:
+				s.rhs[r] += c.Value
+			}
+		}
+	}
+	x, dense, err := s.solve()
+	if err != nil {
+		return nil, err
+	}
+
+	sol := &Solution{T: make([]float64, n), J: make([]float64, n), Q: make([]float64, n), q: make([]float64, n), Dense: dense}
+	for k := range n {
+		if v := varJ[k]; v >= 0 {
+			sol.J[k] = x[v]
+		} else {
+			sol.J[k] = knownJ[k]
+		}
+	}
+	for k := range n {
+		gk := fAmb(k) * ambE
+		for _, e := range p.F[k] {
+			gk += e.F * sol.J[e.J]
+		}
+		sol.q[k] = sol.J[k] - gk
+		sol.Q[k] = p.Area[k] * sol.q[k]
+		sol.ToAmbient += p.Area[k] * fAmb(k) * (sol.J[k] - ambE)
+		c, g, eps := cond(k), group[k], p.Emissivity[k]
+		var e4 float64 // σT⁴
+		switch {
+		case c.Kind == Temperature:
+			sol.T[k] = c.Value
+			continue
+		case g >= 0:
+			e4 = x[varE[g]]
+		default:
+			e4 = sol.J[k] + (1-eps)/eps*sol.q[k]
+		}
+		if !(e4 >= 0) {
+			return nil, fmt.Errorf("exchange: the condition on node %d cannot be met: it needs σT⁴ = %.4g W/m² < 0 (it must absorb more than its surroundings can give)", k, e4)
+		}
+		sol.T[k] = math.Sqrt(math.Sqrt(e4 / Sigma))
+	}
+	qmax, sum := 0.0, 0.0
+	for _, q := range sol.Q {
+		qmax = math.Max(qmax, math.Abs(q))
+		sum += q
+	}
+	if qmax > 0 {
+		sol.Imbalance = math.Abs(sum-sol.ToAmbient) / qmax
+	}
+	return sol, nil
+}
+
+// solve solves the assembled system densely (LU) when small, else by
+// conjugate gradients when symmetric and Gauss–Seidel otherwise.
+func (s *system) solve() ([]float64, bool, error) {
+	if s.n == 0 {
+		return nil, true, nil
+	}
+	if s.n <= denseLimit {
+		m := mat.NewDense(s.n, s.n, nil)
+		for k := range s.rows {
+			m.Set(s.rows[k], s.cols[k], m.At(s.rows[k], s.cols[k])+s.vals[k])
+		}
+		var lu mat.LU
+		lu.Factorize(m)
+		if c := lu.Cond(); c > 1e14 || math.IsInf(c, 0) {
+			return nil, true, fmt.Errorf("exchange: the system is singular (condition number %.3g): %w", c, ErrNoTemperature)
+		}
+		var x mat.VecDense
+		if err := lu.SolveVecTo(&x, false, mat.NewVecDense(s.n, s.rhs)); err != nil {
+			return nil, true, fmt.Errorf("exchange: %w", err)
+		}
+		return x.RawVector().Data, true, nil
+	}
+	c := toCSR(s)
+	if c.symmetric() {
+		x, err := c.conjugateGradient(s.rhs)
+		return x, false, err
+	}
+	x, err := c.gaussSeidel(s.rhs)
+	return x, false, err
+}
+
+// csr is a compressed sparse row matrix.
+type csr struct {
+	n     int
+	start []int
+	col   []int
+	val   []float64
+	diag  []float64
+}
+
+func toCSR(s *system) *csr {
+	idx := make([]int, len(s.rows))
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.Slice(idx, func(a, b int) bool {
+		ia, ib := idx[a], idx[b]
+		if s.rows[ia] != s.rows[ib] {
+			return s.rows[ia] < s.rows[ib]
+		}
+		return s.cols[ia] < s.cols[ib]
+	})
+	c := &csr{n: s.n, start: make([]int, s.n+1), diag: make([]float64, s.n)}
+	last := [2]int{-1, -1}
+	for _, k := range idx {
+		r, cl := s.rows[k], s.cols[k]
+		if last == [2]int{r, cl} {
+			c.val[len(c.val)-1] += s.vals[k]
+		} else {
+			c.col = append(c.col, cl)
+			c.val = append(c.val, s.vals[k])
+			c.start[r+1]++
+			last = [2]int{r, cl}
+		}
+	}
+	for r := range s.n {
+		c.start[r+1] += c.start[r]
+	}
+	for r := range s.n {
+		for k := c.start[r]; k < c.start[r+1]; k++ {
+			if c.col[k] == r {
+				c.diag[r] = c.val[k]
+			}
+		}
+	}
+	return c
+}
+
+func (c *csr) at(r, cl int) float64 {
+	lo, hi := c.start[r], c.start[r+1]
+	k := lo + sort.SearchInts(c.col[lo:hi], cl)
+	if k < hi && c.col[k] == cl {
+		return c.val[k]
+	}
+	return 0
+}
+
+func (c *csr) symmetric() bool {
+	for r := range c.n {
+		for k := c.start[r]; k < c.start[r+1]; k++ {
+			v, w := c.val[k], c.at(c.col[k], r)
+			if math.Abs(v-w) > 1e-9*math.Max(math.Abs(v), math.Abs(w)) {
+				return false
+			}
+		}
+	}
+	return true
+}
+
+func (c *csr) mul(y, x []float64) {
+	for r := range c.n {
+		s := 0.0
+		for k := c.start[r]; k < c.start[r+1]; k++ {
+			s += c.val[k] * x[c.col[k]]
+		}
+		y[r] = s
+	}
+}
+
+const iterTol = 1e-12
+
+// conjugateGradient solves c·x = b with a Jacobi preconditioner.
+func (c *csr) conjugateGradient(b []float64) ([]float64, error) {
+	n := c.n
+	x, r, z, p, ap := make([]float64, n), append([]float64(nil), b...), make([]float64, n), make([]float64, n), make([]float64, n)
+	bn := math.Sqrt(dot(b, b))
+	if bn == 0 {
+		return x, nil
+	}
+	rz := 0.0
+	for i := range r {
+		z[i] = r[i] / c.diag[i]
+		p[i] = z[i]
+		rz += r[i] * z[i]
+	}
+	for it := 0; it < 20*n+1000; it++ {
+		c.mul(ap, p)
+		a := rz / dot(p, ap)
+		for i := range x {
+			x[i] += a * p[i]
+			r[i] -= a * ap[i]
+		}
+		if math.Sqrt(dot(r, r)) <= iterTol*bn {
+			return x, nil
+		}
+		rzNew := 0.0
+		for i := range r {
+			z[i] = r[i] / c.diag[i]
+			rzNew += r[i] * z[i]
+		}
+		beta := rzNew / rz
+		rz = rzNew
+		for i := range p {
+			p[i] = z[i] + beta*p[i]
+		}
+	}
+	return nil, ErrNotConverged
+}
+
+// gaussSeidel solves c·x = b for a diagonally dominant c.
+func (c *csr) gaussSeidel(b []float64) ([]float64, error) {
+	x := make([]float64, c.n)
+	bn := math.Sqrt(dot(b, b))
+	res := make([]float64, c.n)
+	for it := 0; it < 100000; it++ {
+		for r := range c.n {
+			s := b[r]
+			for k := c.start[r]; k < c.start[r+1]; k++ {
+				if c.col[k] != r {
+					s -= c.val[k] * x[c.col[k]]
+				}
+			}
+			x[r] = s / c.diag[r]
+		}
+		if it%10 == 9 {
+			c.mul(res, x)
+			for i := range res {
+				res[i] -= b[i]
+			}
+			if math.Sqrt(dot(res, res)) <= iterTol*bn {
+				return x, nil
+			}
+		}
+	}
+	return nil, ErrNotConverged
+}
+
+func dot(a, b []float64) float64 {
+	s := 0.0
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
