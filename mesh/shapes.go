@@ -192,3 +192,33 @@ func Cylinder(name string, base, axis geometry.Vec3, radius float64, na, nl int,
 	}
 	return s.finish()
 }
+
+// Merge returns one surface called name holding the facets of all parts,
+// with coincident vertices shared (so pieces built side by side join
+// without open edges).
+func Merge(name string, parts ...*Mesh) *Mesh {
+	s := newShape()
+	s.use(name)
+	for _, p := range parts {
+		for f := range p.Facets {
+			t := p.Triangle(f)
+			s.add(s.vertex(t.V0), s.vertex(t.V1), s.vertex(t.V2), 0)
+		}
+	}
+	return s.finish()
+}
+
+// Scaled returns a copy of m with every coordinate multiplied by k (to
+// write files in other units).
+func Scaled(m *Mesh, k float64) *Mesh {
+	out := *m
+	out.Vertices = make([]geometry.Vec3, len(m.Vertices))
+	for i, v := range m.Vertices {
+		out.Vertices[i] = v.Scale(k)
+	}
+	out.Surfaces = append([]Surface(nil), m.Surfaces...)
+	for i := range out.Surfaces {
+		out.Surfaces[i].Area *= k * k
+	}
+	return &out
+}

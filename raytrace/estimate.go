@@ -44,6 +44,10 @@ type Options struct {
 	// BatchSize is the number of rays per random stream and work unit.
 	// Changing it changes the numbers; it is part of the case. Default 65,536.
 	BatchSize int64
+	// Replicates, when at least 2, also keeps the tallies of that many
+	// independent sub-samples (ray r of a node belongs to replicate r mod
+	// Replicates), for replicate-based intervals on derived results.
+	Replicates int
 	// MemoryLimit, when positive, is the memory in bytes a facet-mode run may
 	// plan to use; Estimate refuses to start a larger one.
 	MemoryLimit int64
@@ -88,6 +92,8 @@ func (o *Options) defaults() error {
 		return fmt.Errorf("half-width %v is not in [0, 0.5)", o.HalfWidth)
 	case o.BatchSize < 64:
 		return fmt.Errorf("batch size %d is below 64", o.BatchSize)
+	case o.Replicates < 0 || o.Replicates == 1:
+		return fmt.Errorf("replicates %d: use 0 (none) or at least 2", o.Replicates)
 	}
 	return nil
 }
@@ -113,12 +119,11 @@ func Estimate(ctx context.Context, m *mesh.Mesh, opts Options) (*Result, error) 
 	}
 	// Report the areas of the mesh as given; the rounded ones (within 1e-7)
 	// only weight the choice of emitting facet.
-	for i := range nm.nodes {
-		nm.nodes[i].Area = 0
-		for _, f := range nm.nodes[i].Facets {
-			nm.nodes[i].Area += m.FacetArea(int(f))
-		}
+	nodes, err := Nodes(m, opts)
+	if err != nil {
+		return nil, err
 	}
+	nm.nodes = nodes
 	if opts.FacetNodes && opts.MemoryLimit > 0 {
 		if need := plannedBytes(len(m.Facets), len(nm.nodes), opts); need > opts.MemoryLimit {
 			return nil, fmt.Errorf("facet mode with %d nodes needs about %.1f GiB for its tallies and tree, more than the %.1f GiB available; use fewer rays, surface nodes, or a machine with more memory",
@@ -129,10 +134,14 @@ func Estimate(ctx context.Context, m *mesh.Mesh, opts Options) (*Result, error) 
 	tree := bvh.Build(m.Vertices, m.Facets, bvh.Options{Threads: opts.Threads})
 	r := &Result{
 		Nodes: nm.nodes, Tally: *newTally(len(nm.nodes)), Options: opts,
+		Replicas: make([]Tally, opts.Replicates),
 		BuildSeconds: tree.Stats.BuildTime.Seconds(), Threads: opts.Threads,
 		z: zScore(opts.Confidence),
 	}
 	e := &engine{m: m, tree: tree, em: em, nm: nm, opts: &opts, start: start}
+	for k := range r.Replicas {
+		r.Replicas[k] = *newTally(len(nm.nodes))
+	}
 	e.nodeEm = make([]nodeEmitter, len(nm.nodes))
 	for i := range nm.nodes {
 		e.nodeEm[i] = newNodeEmitter(&nm.nodes[i], area)
@@ -149,7 +158,7 @@ func Estimate(ctx context.Context, m *mesh.Mesh, opts Options) (*Result, error) 
 		if len(units) == 0 {
 			return r, nil
 		}
-		if err := e.run(ctx, units, &r.Tally); err != nil {
+		if err := e.run(ctx, units, r); err != nil {
 			return r, err
 		}
 		if opts.HalfWidth == 0 {
@@ -211,15 +220,20 @@ type engine struct {
 	traced atomic.Int64
 }
 
-// unitResult is the tally of one finished unit.
+// unitResult is the tally of one finished unit, per replicate (one when
+// there are none).
 type unitResult struct {
 	u             unit
-	escaped       int64
-	hits, backHit Row
+	rays, escaped []int64
+	hits, backHit []Row
 }
 
-// run traces the units on the worker pool and adds finished ones to t.
-func (e *engine) run(ctx context.Context, units []unit, t *Tally) error {
+// reps is the number of tally sets a unit keeps.
+func (e *engine) reps() int { return max(1, e.opts.Replicates) }
+
+// run traces the units on the worker pool and adds finished ones to the
+// result's tallies.
+func (e *engine) run(ctx context.Context, units []unit, out *Result) error {
 	var planned int64
 	for _, u := range units {
 		planned += u.hi - u.lo
@@ -230,7 +244,10 @@ func (e *engine) run(ctx context.Context, units []unit, t *Tally) error {
 	g, gctx := errgroup.WithContext(ctx)
 	for w := range e.opts.Threads {
 		g.Go(func() error {
-			s := newScratch(len(e.nm.nodes), len(e.m.Surfaces))
+			s := make([]*scratch, e.reps())
+			for k := range s {
+				s[k] = newScratch(len(e.nm.nodes), len(e.m.Surfaces))
+			}
 			var b bvh.Batch
 			for {
 				k := next.Add(1) - 1
@@ -267,13 +284,21 @@ func (e *engine) run(ctx context.Context, units []unit, t *Tally) error {
 	close(done)
 	wg.Wait()
 	// Sum whatever units finished; integer sums do not depend on the order.
+	add := func(t *Tally, r *unitResult, k int) {
+		i := r.u.node
+		t.Rays[i] += r.rays[k]
+		t.Escaped[i] += r.escaped[k]
+		t.Hits[i] = t.Hits[i].Add(r.hits[k])
+		t.Back[i] = t.Back[i].Add(r.backHit[k])
+	}
 	for _, rs := range results {
 		for _, r := range rs {
-			i := r.u.node
-			t.Rays[i] += r.u.hi - r.u.lo
-			t.Escaped[i] += r.escaped
-			t.Hits[i] = t.Hits[i].Add(r.hits)
-			t.Back[i] = t.Back[i].Add(r.backHit)
+			for k := range r.rays {
+				add(&out.Tally, &r, k)
+				if len(out.Replicas) > 0 {
+					add(&out.Replicas[k], &r, k)
+				}
+			}
 		}
 	}
 	if e.opts.Progress != nil {
@@ -286,18 +311,23 @@ func (e *engine) run(ctx context.Context, units []unit, t *Tally) error {
 const chunk = 64
 
 // trace runs one unit. Its rays use stream (seed, node, batch) from offset
-// (lo mod batch)·numbersPerRay, so any worker produces the same numbers.
-func (e *engine) trace(ctx context.Context, u unit, s *scratch, b *bvh.Batch) (unitResult, error) {
+// (lo mod batch)·numbersPerRay, so any worker produces the same numbers;
+// ray r is tallied in replicate r mod reps.
+func (e *engine) trace(ctx context.Context, u unit, s []*scratch, b *bvh.Batch) (unitResult, error) {
 	batch := e.opts.BatchSize
 	st := sample.NewStream(e.opts.Seed, int64(u.node), u.lo/batch)
 	st.Skip(uint64(u.lo%batch) * numbersPerRay)
 	ne := &e.nodeEm[u.node]
 	var qs [chunk]bvh.Query
 	var hs [chunk]bvh.Hit
-	res := unitResult{u: u}
+	reps := int64(len(s))
+	res := unitResult{u: u, rays: make([]int64, reps), escaped: make([]int64, reps), hits: make([]Row, reps), backHit: make([]Row, reps)}
 	front, back, surf := e.nm.front, e.nm.back, e.m.SurfaceOf
 	for lo := u.lo; lo < u.hi; lo += chunk {
 		if err := ctx.Err(); err != nil {
+			for k := range s {
+				s[k].take() // leave the scratch clean
+			}
 			return res, err
 		}
 		n := int(min(chunk, u.hi-lo))
@@ -307,19 +337,24 @@ func (e *engine) trace(ctx context.Context, u unit, s *scratch, b *bvh.Batch) (u
 		e.tree.IntersectBatch(b, qs[:n], hs[:n])
 		for k := range n {
 			h := &hs[k]
+			rep := (lo + int64(k)) % reps
+			sc := s[rep]
+			res.rays[rep]++
 			switch {
 			case h.Facet < 0:
-				res.escaped++
+				res.escaped[rep]++
 			case h.Front && front[h.Facet] >= 0:
-				s.hit(front[h.Facet])
+				sc.hit(front[h.Facet])
 			case !h.Front && back[h.Facet] >= 0:
-				s.hit(back[h.Facet])
+				sc.hit(back[h.Facet])
 			default:
-				s.backHit(surf[h.Facet])
+				sc.backHit(surf[h.Facet])
 			}
 		}
 		e.traced.Add(int64(n))
 	}
-	res.hits, res.backHit = s.take()
+	for k := range s {
+		res.hits[k], res.backHit[k] = s[k].take()
+	}
 	return res, nil
 }

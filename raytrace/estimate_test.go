@@ -213,3 +213,34 @@ func TestWilson(t *testing.T) {
 		t.Errorf("z(0.95) = %v", z)
 	}
 }
+
+func TestReplicatesAddUp(t *testing.T) {
+	m := ReferenceCases()[1].Mesh
+	r, err := Estimate(context.Background(), m, Options{Rays: 10001, Seed: 3, Replicates: 4})
+	if err != nil {
+		t.Fatal(err)
+	}
+	sum := *newTally(len(r.Nodes))
+	for _, rep := range r.Replicas {
+		for i := range r.Nodes {
+			sum.Rays[i] += rep.Rays[i]
+			sum.Escaped[i] += rep.Escaped[i]
+			sum.Hits[i] = sum.Hits[i].Add(rep.Hits[i])
+			sum.Back[i] = sum.Back[i].Add(rep.Back[i])
+		}
+	}
+	if !reflect.DeepEqual(sum, r.Tally) {
+		t.Errorf("replicates do not add up to the pooled tally")
+	}
+	if r.Replicas[0].Rays[0] != 2501 || r.Replicas[3].Rays[0] != 2500 {
+		t.Errorf("replicate rays %d, %d; want 2501, 2500", r.Replicas[0].Rays[0], r.Replicas[3].Rays[0])
+	}
+	// Replicates do not change the pooled numbers.
+	r2, err := Estimate(context.Background(), m, Options{Rays: 10001, Seed: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !reflect.DeepEqual(r2.Tally, r.Tally) {
+		t.Error("pooled tally depends on the replicate count")
+	}
+}

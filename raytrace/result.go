@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"sort"
+
+	"github.com/hemiray/hemiray/mesh"
 )
 
 // Result is the outcome of Estimate: the nodes, the raw tallies and what is
@@ -11,6 +13,9 @@ import (
 type Result struct {
 	Nodes []Node
 	Tally
+	// Replicas are the tallies of the Options.Replicates sub-samples; they
+	// add up to Tally.
+	Replicas     []Tally
 	Options      Options
 	BuildSeconds float64
 	TraceSeconds float64
@@ -160,3 +165,35 @@ func (r *Result) NodeIndex(name string) int {
 	}
 	return -1
 }
+
+// Nodes returns the radiation nodes Estimate would use for m with opts,
+// without tracing (to read saved tallies back).
+func Nodes(m *mesh.Mesh, opts Options) ([]Node, error) {
+	two := map[string]bool{}
+	for _, s := range opts.TwoSided {
+		two[s] = true
+	}
+	_, area := emitters(m)
+	nm, err := buildNodes(m, two, opts.FacetNodes, area)
+	if err != nil {
+		return nil, err
+	}
+	for i := range nm.nodes {
+		nm.nodes[i].Area = 0
+		for _, f := range nm.nodes[i].Facets {
+			nm.nodes[i].Area += m.FacetArea(int(f))
+		}
+	}
+	return nm.nodes, nil
+}
+
+// NewResult wraps saved tallies as a Result (no timings).
+func NewResult(nodes []Node, t Tally, replicas []Tally, opts Options) (*Result, error) {
+	if err := opts.defaults(); err != nil {
+		return nil, err
+	}
+	return &Result{Nodes: nodes, Tally: t, Replicas: replicas, Options: opts, Threads: opts.Threads, z: zScore(opts.Confidence)}, nil
+}
+
+// NewTally returns an empty tally for n nodes.
+func NewTally(n int) Tally { return *newTally(n) }

@@ -152,6 +152,9 @@ func (lc *loadedCase) checkSurfaces() error {
 			if sp.TwoSided != nil || sp.Flip != nil {
 				return caseError(lc.path, lc.line(table, ""), "two_sided and flip belong to [surfaces.%q], not to its back", base)
 			}
+			if sp.conditions() > 0 {
+				return caseError(lc.path, lc.line(table, ""), "the two sides of %s share one temperature: give its condition in [surfaces.%q]", base, base)
+			}
 		case lc.mesh.SurfaceIndex(name) < 0:
 			return caseError(lc.path, lc.line(table, ""), "no surface %q in the model; its surfaces are: %s", name, strings.Join(known, ", "))
 		}

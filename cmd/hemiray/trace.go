@@ -275,10 +275,13 @@ func finishTrace(in *input, res *raytrace.Result, stdout, stderr io.Writer) erro
 	if err != nil {
 		return err
 	}
+	if err := writeTallies(in.outDir, res, names); err != nil {
+		return err
+	}
 	if err := writeJSON(filepath.Join(in.outDir, "summary.json"), sum); err != nil {
 		return err
 	}
-	written = append(written, "summary.json")
+	written = append(written, tallyFile, "summary.json")
 	printNodes(stdout, res)
 	fmt.Fprintf(stdout, "\n%d rays in %.2f s (%.3g Mrays/s on %d threads); BVH built in %.2f s\n",
 		res.RaysTraced(), res.TraceSeconds, float64(res.RaysTraced())/res.TraceSeconds/1e6, res.Threads, res.BuildSeconds)

@@ -1,0 +1,209 @@
+package main
+
+import (
+	"context"
+	"encoding/json"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"github.com/hemiray/hemiray/raytrace"
+)
+
+// defaultReplicates is the replicate count for heat-flow intervals when the
+// case does not set rays.replicates.
+const defaultReplicates = 8
+
+func runCommand() *command {
+	c := &command{
+		Name:      "run",
+		UsageLine: "run CASE.toml [--rays N | --halfwidth H] [--replicates R] [--seed S] [--threads T] [-o DIR]",
+		Short:     "trace, smooth and solve a case: heat flows and temperatures",
+		Long: `Run traces the case's view factors, smooths them for reciprocity and
+summation, solves the gray-enclosure exchange with the case's boundary
+conditions, and writes, besides the files of trace:
+
+  viewfactors_smoothed.csv        the smoothed matrix
+  viewfactors_smoothed_pairs.csv  raw and smoothed factors, and how far each moved
+  surfaces.csv                    per node: area, emissivity, condition, T, J, q, Q (± intervals)
+  conductances.csv                total exchange factors and radiative conductances σ·A_i·ℱ_ij
+  tallies.csv                     raw ray counts, from which solve can redo the analysis
+
+Intervals on T and Q come from --replicates independent sub-samples of the
+rays, each smoothed and solved (a Student-t interval at the case's
+confidence). The README documents the case file.`,
+		Flags: flag.NewFlagSet("run", flag.ContinueOnError),
+	}
+	var tf traceFlags
+	tf.register(c.Flags)
+	replicates := c.Flags.Int("replicates", 0, fmt.Sprintf("independent replicates for heat-flow intervals (default: the case's rays.replicates, else %d)", defaultReplicates))
+	c.Run = func(ctx context.Context, args []string, stdout, stderr io.Writer) error {
+		pos, err := parseArgs(c.Flags, args)
+		if err != nil {
+			return err
+		}
+		if len(pos) != 1 || !strings.EqualFold(filepath.Ext(pos[0]), ".toml") {
+			return usagef("run takes one case file (.toml)")
+		}
+		in, err := loadInput(c.Flags, &tf, pos)
+		if err != nil {
+			return err
+		}
+		in.opts.Replicates = in.lc.c.Rays.Replicates
+		if *replicates != 0 {
+			in.opts.Replicates = *replicates
+		}
+		if in.opts.Replicates == 0 {
+			in.opts.Replicates = defaultReplicates
+		}
+		if in.opts.Replicates < 2 {
+			return usagef("--replicates must be at least 2")
+		}
+		if err := preflight(in); err != nil {
+			return err
+		}
+		res, err := traceInput(ctx, in, &tf, stderr)
+		if err != nil {
+			return err
+		}
+		return finishRun(in, res, stdout, stderr)
+	}
+	return c
+}
+
+// preflight checks that every node has an emissivity and a condition
+// before any ray is traced.
+func preflight(in *input) error {
+	nodes, err := raytrace.Nodes(in.mesh, in.opts)
+	if err != nil {
+		return err
+	}
+	for _, n := range nodes {
+		surf := in.mesh.Surfaces[n.Surface].Name
+		side := in.lc.spec(surf)
+		if n.Back {
+			side = in.lc.spec(surf + ".back")
+		}
+		if side.Emissivity == nil {
+			return fmt.Errorf("%s: no emissivity for %s: set it in [surfaces.%q] or [defaults]", in.lc.path, n.Name, surf)
+		}
+		if _, err := condition(in.lc.spec(surf), 1); err != nil {
+			return fmt.Errorf("%s: surface %s: %w", in.lc.path, surf, err)
+		}
+	}
+	return nil
+}
+
+// finishRun writes everything and prints the heat balance.
+func finishRun(in *input, res *raytrace.Result, stdout, stderr io.Writer) error {
+	names := surfaceNames(in.mesh)
+	warnings := res.Warnings(names)
+	a, err := analyse(in.lc, res)
+	if err != nil {
+		return err
+	}
+	warnings = append(warnings, a.notes...)
+	for _, w := range warnings {
+		fmt.Fprintf(stderr, "hemiray: warning: %s\n", w)
+	}
+	written, err := writeViewFactors(in.outDir, res)
+	if err != nil {
+		return err
+	}
+	if err := writeTallies(in.outDir, res, names); err != nil {
+		return err
+	}
+	more, err := writeAnalysis(in.outDir, res, a)
+	if err != nil {
+		return err
+	}
+	written = append(append(written, tallyFile), more...)
+	sum, err := newSummary(in, res, warnings)
+	if err != nil {
+		return err
+	}
+	sum.Extra = analysisSummary(a)
+	if err := writeJSON(filepath.Join(in.outDir, "summary.json"), sum); err != nil {
+		return err
+	}
+	written = append(written, "summary.json")
+	printAnalysis(stdout, res, a)
+	if res.TraceSeconds > 0 {
+		fmt.Fprintf(stdout, "%d rays in %.2f s (%.3g Mrays/s on %d threads)\n", res.RaysTraced(), res.TraceSeconds, float64(res.RaysTraced())/res.TraceSeconds/1e6, res.Threads)
+	}
+	fmt.Fprintf(stdout, "wrote %s: %s\n", in.outDir, strings.Join(written, ", "))
+	fmt.Fprintln(stdout, "caution: these are estimates for engineering judgement; the applicable codes and licensed professional practice govern.")
+	return nil
+}
+
+func solveCommand() *command {
+	c := &command{
+		Name:      "solve",
+		UsageLine: "solve CASE.toml [-o DIR]",
+		Short:     "smooth and solve again from saved tallies (new conditions, no tracing)",
+		Long: `Solve reads the tallies a previous run or trace of the same case left in
+the output folder (tallies.csv), smooths them and solves the exchange with
+the case's current emissivities and boundary conditions, writing the files
+of run. Change emissivities, temperatures or heat loads and solve again in
+a second instead of tracing again; a change to the geometry, the nodes or
+the ray settings is refused (the input hash in summary.json differs).`,
+		Flags: flag.NewFlagSet("solve", flag.ContinueOnError),
+	}
+	var tf traceFlags
+	tf.register(c.Flags)
+	c.Run = func(ctx context.Context, args []string, stdout, stderr io.Writer) error {
+		pos, err := parseArgs(c.Flags, args)
+		if err != nil {
+			return err
+		}
+		if len(pos) != 1 || !strings.EqualFold(filepath.Ext(pos[0]), ".toml") {
+			return usagef("solve takes one case file (.toml)")
+		}
+		in, err := loadInput(c.Flags, &tf, pos)
+		if err != nil {
+			return err
+		}
+		if err := checkSameInput(in); err != nil {
+			return err
+		}
+		nodes, err := raytrace.Nodes(in.mesh, in.opts)
+		if err != nil {
+			return err
+		}
+		pooled, reps, err := readTallies(in.outDir, nodes, surfaceNames(in.mesh))
+		if err != nil {
+			return err
+		}
+		in.opts.Replicates = len(reps)
+		res, err := raytrace.NewResult(nodes, pooled, reps, in.opts)
+		if err != nil {
+			return err
+		}
+		return finishRun(in, res, stdout, stderr)
+	}
+	return c
+}
+
+// checkSameInput refuses tallies traced from another geometry or settings.
+func checkSameInput(in *input) error {
+	b, err := os.ReadFile(filepath.Join(in.outDir, "summary.json"))
+	if err != nil {
+		return fmt.Errorf("%w (run trace or run first)", err)
+	}
+	var s summary
+	if err := json.Unmarshal(b, &s); err != nil {
+		return fmt.Errorf("%s: %w", filepath.Join(in.outDir, "summary.json"), err)
+	}
+	h, err := in.hash()
+	if err != nil {
+		return err
+	}
+	if s.InputHash != h {
+		return errors.New("the tallies in " + in.outDir + " were traced from other mesh files or ray settings (input hash differs); run the case again")
+	}
+	return nil
+}
