@@ -134,7 +134,7 @@ func Estimate(ctx context.Context, m *mesh.Mesh, opts Options) (*Result, error) 
 	tree := bvh.Build(m.Vertices, m.Facets, bvh.Options{Threads: opts.Threads})
 	r := &Result{
 		Nodes: nm.nodes, Tally: *newTally(len(nm.nodes)), Options: opts,
-		Replicas: make([]Tally, opts.Replicates),
+		Replicas:     make([]Tally, opts.Replicates),
 		BuildSeconds: tree.Stats.BuildTime.Seconds(), Threads: opts.Threads,
 		z: zScore(opts.Confidence),
 	}
