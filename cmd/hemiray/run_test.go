@@ -1,0 +1,158 @@
+package main
+
+import (
+	"encoding/csv"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/hemiray/hemiray/geometry"
+	"github.com/hemiray/hemiray/mesh"
+	"github.com/hemiray/hemiray/raytrace/exchange"
+)
+
+// readSurfaces reads surfaces.csv into node → column → value.
+func readSurfaces(t *testing.T, path string) map[string]map[string]string {
+	t.Helper()
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	recs, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := map[string]map[string]string{}
+	for _, r := range recs[1:] {
+		row := map[string]string{}
+		for k, h := range recs[0] {
+			row[h] = r[k]
+		}
+		out[r[0]] = row
+	}
+	return out
+}
+
+func val(t *testing.T, s string) float64 {
+	t.Helper()
+	x, err := strconv.ParseFloat(s, 64)
+	if err != nil {
+		t.Fatalf("not a number: %q", s)
+	}
+	return x
+}
+
+// The whole pipeline on tessellated concentric spheres, from a hand-written
+// case file: the heat flow must match the closed form for concentric
+// spheres, Q = σA1(T1⁴ − T2⁴)/(1/ε1 + (A1/A2)(1/ε2 − 1)) (Incropera &
+// DeWitt eq. 13.24), within its reported interval plus the tessellation
+// effect, which is evaluated exactly by using the facetted areas in the
+// closed form (A1/A2 of the polyhedra is their exact view factor ratio).
+func TestRunConcentricSpheres(t *testing.T) {
+	dir := t.TempDir()
+	inner := mesh.Sphere("inner", geometry.Vec3{}, 0.1, 10, false)
+	outer := mesh.Sphere("outer", geometry.Vec3{}, 0.2, 10, true)
+	for name, m := range map[string]*mesh.Mesh{"inner.stl": inner, "outer.stl": outer} {
+		f, _ := os.Create(filepath.Join(dir, name))
+		if err := mesh.WriteSTL(f, m, strings.TrimSuffix(name, ".stl")); err != nil {
+			t.Fatal(err)
+		}
+		f.Close()
+	}
+	caseText := `[model]
+files = ["inner.stl", "outer.stl"]
+[rays]
+per_node = 100000
+seed = 11
+replicates = 8
+[surfaces.inner]
+emissivity = 0.3
+temperature = 700
+[surfaces.outer]
+emissivity = 0.6
+temperature = 300
+`
+	os.WriteFile(filepath.Join(dir, "spheres.toml"), []byte(caseText), 0o644)
+	code, out, errOut := runCLI("run", filepath.Join(dir, "spheres.toml"), "--quiet", "-o", filepath.Join(dir, "out"))
+	if code != 0 {
+		t.Fatalf("run: exit %d\n%s\n%s", code, out, errOut)
+	}
+	s := readSurfaces(t, filepath.Join(dir, "out", "surfaces.csv"))
+	a1, a2 := inner.TotalArea(), outer.TotalArea()
+	want := exchange.Sigma * a1 * (math.Pow(700, 4) - math.Pow(300, 4)) / (1/0.3 + a1/a2*(1/0.6-1))
+	q, hw := val(t, s["inner"]["Q_W"]), val(t, s["inner"]["Q_halfwidth_W"])
+	// F(inner→outer) = 1 exactly here, so only F_22 is estimated; the
+	// interval must cover the truth (allow 2 half-widths: a 95 % interval
+	// misses one time in twenty).
+	if math.Abs(q-want) > 2*hw+1e-9*want {
+		t.Errorf("Q(inner) = %.6g ± %.3g W, closed form %.6g W", q, hw, want)
+	}
+	if got := val(t, s["outer"]["Q_W"]); math.Abs(got+q) > 1e-9*want {
+		t.Errorf("energy balance: Q(outer) = %v, Q(inner) = %v", got, q)
+	}
+	for _, f := range []string{"viewfactors_smoothed.csv", "conductances.csv", "tallies.csv", "summary.json", "viewfactors_smoothed_pairs.csv"} {
+		if _, err := os.Stat(filepath.Join(dir, "out", f)); err != nil {
+			t.Errorf("missing %s", f)
+		}
+	}
+	// solve with a changed temperature reuses the tallies without tracing.
+	os.WriteFile(filepath.Join(dir, "spheres.toml"), []byte(strings.Replace(caseText, "temperature = 700", "temperature = 900", 1)), 0o644)
+	code, out, errOut = runCLI("solve", filepath.Join(dir, "spheres.toml"), "--quiet", "-o", filepath.Join(dir, "out"))
+	if code != 0 {
+		t.Fatalf("solve: exit %d\n%s\n%s", code, out, errOut)
+	}
+	s = readSurfaces(t, filepath.Join(dir, "out", "surfaces.csv"))
+	want = exchange.Sigma * a1 * (math.Pow(900, 4) - math.Pow(300, 4)) / (1/0.3 + a1/a2*(1/0.6-1))
+	if q := val(t, s["inner"]["Q_W"]); math.Abs(q-want) > 2*val(t, s["inner"]["Q_halfwidth_W"])+1e-9*want {
+		t.Errorf("solve: Q(inner) = %v, closed form %v", q, want)
+	}
+	// A changed ray setting is refused.
+	os.WriteFile(filepath.Join(dir, "spheres.toml"), []byte(strings.Replace(caseText, "seed = 11", "seed = 12", 1)), 0o644)
+	if code, _, errOut := runCLI("solve", filepath.Join(dir, "spheres.toml"), "-o", filepath.Join(dir, "out")); code != 1 || !strings.Contains(errOut, "input hash differs") {
+		t.Errorf("solve after a seed change: exit %d, %s", code, errOut)
+	}
+}
+
+func TestRunNeedsConditions(t *testing.T) {
+	dir := t.TempDir()
+	mesh, _ := filepath.Abs("../../testdata/cabinet_multi.stl")
+	p := filepath.Join(dir, "c.toml")
+	os.WriteFile(p, []byte("[model]\nfiles = [\""+mesh+"\"]\n[defaults]\nemissivity = 0.5\n[surfaces.floor]\ntemperature = 400\n"), 0o644)
+	code, _, errOut := runCLI("run", p, "--quiet", "-o", filepath.Join(dir, "o"))
+	if code != 1 || !strings.Contains(errOut, "surface back_wall: no boundary condition") {
+		t.Errorf("exit %d, %q", code, errOut)
+	}
+	// Open model without an ambient temperature.
+	os.WriteFile(p, []byte("[model]\nfiles = [\""+mesh+"\"]\n[defaults]\nemissivity = 0.5\nadiabatic = true\n[surfaces.floor]\ntemperature = 400\n"), 0o644)
+	code, _, errOut = runCLI("run", p, "--quiet", "--rays", "1000", "-o", filepath.Join(dir, "o"))
+	if code != 1 || !strings.Contains(errOut, "[ambient] temperature") {
+		t.Errorf("exit %d, %q", code, errOut)
+	}
+}
+
+func TestDemo(t *testing.T) {
+	if testing.Short() {
+		t.Skip("demo traces 3 million rays")
+	}
+	dir := t.TempDir()
+	code, out, errOut := runCLI("demo", "-o", dir, "--quiet")
+	if code != 0 {
+		t.Fatalf("demo: exit %d\n%s\n%s", code, out, errOut)
+	}
+	s := readSurfaces(t, filepath.Join(dir, "results", "surfaces.csv"))
+	// The board and module carry their fixed heat flows (15 W shared by the
+	// board's two sides, 6 W), and the net heat balances (energy conservation).
+	if b := val(t, s["board"]["Q_W"]) + val(t, s["board.back"]["Q_W"]); math.Abs(b-15) > 1e-9 {
+		t.Errorf("board sides carry %v W, want 15", b)
+	}
+	if m := val(t, s["module"]["Q_W"]); math.Abs(m-6) > 1e-9 {
+		t.Errorf("module carries %v W, want 6", m)
+	}
+	if !strings.Contains(out, "caution") || strings.Contains(errOut, "warning") {
+		t.Errorf("demo output:\n%s\n%s", out, errOut)
+	}
+}
