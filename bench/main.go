@@ -6,12 +6,14 @@ import (
 	"log"
 	"math"
 	"os"
+	"path/filepath"
 	"runtime"
 	"sort"
 	"sync"
 	"text/tabwriter"
 	"time"
 
+	"github.com/hemiray/hemiray/mesh"
 	"github.com/hemiray/hemiray/raytrace/bvh"
 	"github.com/hemiray/hemiray/raytrace/sample"
 )
@@ -35,6 +37,7 @@ func main() {
 	which := flag.String("workload", "all", "workload: squares, box, room, sphere or all")
 	rays := flag.Int("rays", 2000000, "rays per throughput measurement")
 	threads := flag.Int("threads", runtime.GOMAXPROCS(0), "threads for the multi-thread measurement")
+	objDir := flag.String("obj", "", "also write each workload as DIR/NAME.obj (to time hemiray trace on it)")
 	flag.Parse()
 
 	var results []result
@@ -47,6 +50,11 @@ func main() {
 		m, err := w.make()
 		if err != nil {
 			log.Fatalf("%s: %v", w.name, err)
+		}
+		if *objDir != "" {
+			if err := writeOBJ(filepath.Join(*objDir, w.name+".obj"), m); err != nil {
+				log.Fatal(err)
+			}
 		}
 		r := result{name: w.name, facets: len(m.Facets), threads: *threads}
 		t0 := time.Now()
@@ -95,6 +103,21 @@ func main() {
 		fmt.Printf("workload=%s facets=%d build_s=%.3f bytes_per_facet=%.1f mrays_1t=%.3f mrays_all=%.3f threads=%d efficiency=%.2f\n",
 			r.name, r.facets, r.build1.Seconds(), r.bytesPerFacet, r.mrays1, r.mraysAll, r.threads, r.mraysAll/(r.mrays1*float64(r.threads)))
 	}
+}
+
+func writeOBJ(path string, m *mesh.Mesh) error {
+	if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
+		return err
+	}
+	f, err := os.Create(path)
+	if err != nil {
+		return err
+	}
+	if err := mesh.WriteOBJ(f, m); err != nil {
+		f.Close()
+		return err
+	}
+	return f.Close()
 }
 
 // tracer is scene.trace or scene.traceBatch.
