@@ -5,7 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"runtime"
-	"sync"
 	"sync/atomic"
 	"time"
 
@@ -48,6 +47,22 @@ type Options struct {
 	// independent sub-samples (ray r of a node belongs to replicate r mod
 	// Replicates), for replicate-based intervals on derived results.
 	Replicates int
+	// Shards > 1 makes this run trace only its share of the work units:
+	// those with shardOf(unit) == Shard. Shards add up exactly (Merge).
+	// A sharded run does one round; later HalfWidth rounds are planned from
+	// the merged tallies and passed in Targets.
+	Shard, Shards int
+	// Targets, if set, are the planned rays per node of the current round
+	// (instead of Rays for all).
+	Targets []int64
+	// Resume continues from a checkpoint of the same case: its finished
+	// units are not traced again and its tallies are the starting point.
+	Resume *Checkpoint
+	// OnCheckpoint, if set, is called about every CheckpointEvery (default
+	// one minute) with a consistent snapshot of the finished work, from one
+	// goroutine; an error it returns stops the run.
+	OnCheckpoint    func(*Checkpoint) error
+	CheckpointEvery time.Duration
 	// MemoryLimit, when positive, is the memory in bytes a facet-mode run may
 	// plan to use; Estimate refuses to start a larger one.
 	MemoryLimit int64
@@ -83,6 +98,12 @@ func (o *Options) defaults() error {
 	if o.ProgressEvery == 0 {
 		o.ProgressEvery = time.Second
 	}
+	if o.CheckpointEvery == 0 {
+		o.CheckpointEvery = time.Minute
+	}
+	if o.Shards <= 0 {
+		o.Shards = 1
+	}
 	switch {
 	case o.Rays < 0 || o.MaxRays < o.Rays:
 		return fmt.Errorf("rays per node must be positive and at most the maximum (%d, %d)", o.Rays, o.MaxRays)
@@ -94,6 +115,8 @@ func (o *Options) defaults() error {
 		return fmt.Errorf("batch size %d is below 64", o.BatchSize)
 	case o.Replicates < 0 || o.Replicates == 1:
 		return fmt.Errorf("replicates %d: use 0 (none) or at least 2", o.Replicates)
+	case o.Shard < 0 || o.Shard >= o.Shards:
+		return fmt.Errorf("shard %d/%d: the index must be in [0, %d)", o.Shard, o.Shards, o.Shards)
 	}
 	return nil
 }
@@ -138,10 +161,25 @@ func Estimate(ctx context.Context, m *mesh.Mesh, opts Options) (*Result, error) 
 		BuildSeconds: tree.Stats.BuildTime.Seconds(), Threads: opts.Threads,
 		z: zScore(opts.Confidence),
 	}
-	e := &engine{m: m, tree: tree, em: em, nm: nm, opts: &opts, start: start}
 	for k := range r.Replicas {
 		r.Replicas[k] = *newTally(len(nm.nodes))
 	}
+	r.Targets = make([]int64, len(nm.nodes))
+	for i := range r.Targets {
+		r.Targets[i] = opts.Rays
+	}
+	if opts.Targets != nil {
+		if len(opts.Targets) != len(nm.nodes) {
+			return nil, fmt.Errorf("the plan has targets for %d nodes, the model has %d", len(opts.Targets), len(nm.nodes))
+		}
+		copy(r.Targets, opts.Targets)
+	}
+	if ck := opts.Resume; ck != nil {
+		if err := r.resume(ck); err != nil {
+			return nil, err
+		}
+	}
+	e := &engine{m: m, tree: tree, em: em, nm: nm, opts: &opts, start: start}
 	e.nodeEm = make([]nodeEmitter, len(nm.nodes))
 	for i := range nm.nodes {
 		e.nodeEm[i] = newNodeEmitter(&nm.nodes[i], area)
@@ -149,32 +187,39 @@ func Estimate(ctx context.Context, m *mesh.Mesh, opts Options) (*Result, error) 
 	traceStart := time.Now()
 	defer func() { r.TraceSeconds = time.Since(traceStart).Seconds() }()
 
-	target := make([]int64, len(nm.nodes))
-	for i := range target {
-		target[i] = opts.Rays
-	}
 	for {
-		units := planUnits(r.Rays, target, opts.BatchSize)
-		if len(units) == 0 {
-			return r, nil
-		}
-		if err := e.run(ctx, units, r); err != nil {
-			return r, err
-		}
-		if opts.HalfWidth == 0 {
-			return r, nil
-		}
-		more := false
-		for i := range target {
-			if target[i] < opts.MaxRays && r.RowHalfWidth(i) > opts.HalfWidth {
-				target[i] = min(2*target[i], opts.MaxRays)
-				more = true
+		units := r.pending()
+		if len(units) > 0 {
+			if err := e.run(ctx, units, r); err != nil {
+				return r, err
 			}
 		}
+		if opts.HalfWidth == 0 || opts.Shards > 1 {
+			return r, nil
+		}
+		next, more := r.NextTargets()
 		if !more {
 			return r, nil
 		}
+		r.Targets = next
 	}
+}
+
+// NextTargets returns the next HalfWidth round's planned rays per node:
+// doubled, up to MaxRays, for every node some entry of whose row still has
+// a half-width above the target; more is false when no node needs more.
+func (r *Result) NextTargets() (next []int64, more bool) {
+	next = append([]int64(nil), r.Targets...)
+	if r.Options.HalfWidth == 0 {
+		return next, false
+	}
+	for i := range next {
+		if next[i] < r.Options.MaxRays && r.RowHalfWidth(i) > r.Options.HalfWidth {
+			next[i] = min(2*next[i], r.Options.MaxRays)
+			more = true
+		}
+	}
+	return next, more
 }
 
 // plannedBytes estimates a facet-mode run's memory: the tree, emitter data,
@@ -189,23 +234,43 @@ func plannedBytes(facets, nodes int, o Options) int64 {
 }
 
 // unit is one piece of work: rays [lo, hi) of node, all in one batch.
-type unit struct {
-	node   int32
-	lo, hi int64
+type unit = UnitID
+
+// UnitID identifies a work unit: rays [Lo, Hi) of node Node. Units never
+// cross a batch boundary (BatchSize) nor a HalfWidth round boundary
+// (Rays·2^k), so the same units arise however a run is interrupted,
+// resumed or split.
+type UnitID struct {
+	Node   int32
+	Lo, Hi int64
 }
 
-// planUnits cuts the rays from done[i] to target[i] of every node at batch
-// boundaries.
-func planUnits(done, target []int64, batch int64) []unit {
+// planUnits lists the units of rays [0, target) of every node.
+func planUnits(target []int64, o *Options) []unit {
 	var us []unit
-	for i := range target {
-		for lo := done[i]; lo < target[i]; {
-			hi := min((lo/batch+1)*batch, target[i])
+	for i, t := range target {
+		for lo := int64(0); lo < t; {
+			hi := min((lo/o.BatchSize+1)*o.BatchSize, t)
+			// Earlier rounds ended at Rays·2^k; keep those cuts.
+			for r := o.Rays; r < t; r *= 2 {
+				if r > lo && r < hi {
+					hi = r
+				}
+			}
+			if o.MaxRays > lo && o.MaxRays < hi {
+				hi = o.MaxRays
+			}
 			us = append(us, unit{int32(i), lo, hi})
 			lo = hi
 		}
 	}
 	return us
+}
+
+// shardOf assigns a unit to one of n shards by its node and batch only, so
+// both parts of a batch that a round boundary cuts go to the same shard.
+func shardOf(u unit, batch int64, n int) int {
+	return int(sample.Mix(uint64(u.Node)<<40^uint64(u.Lo/batch)) % uint64(n))
 }
 
 // engine is what the workers share, read-only.
@@ -231,18 +296,19 @@ type unitResult struct {
 // reps is the number of tally sets a unit keeps.
 func (e *engine) reps() int { return max(1, e.opts.Replicates) }
 
-// run traces the units on the worker pool and adds finished ones to the
-// result's tallies.
+// run traces the units on the worker pool. A collector adds every finished
+// unit to the result as it arrives, so a checkpoint can be taken at any
+// time; units cut short by cancellation are dropped whole.
 func (e *engine) run(ctx context.Context, units []unit, out *Result) error {
 	var planned int64
 	for _, u := range units {
-		planned += u.hi - u.lo
+		planned += u.Hi - u.Lo
 	}
 	base := e.traced.Load()
 	next := atomic.Int64{}
-	results := make([][]unitResult, e.opts.Threads)
+	finished := make(chan unitResult, 4*e.opts.Threads)
 	g, gctx := errgroup.WithContext(ctx)
-	for w := range e.opts.Threads {
+	for range e.opts.Threads {
 		g.Go(func() error {
 			s := make([]*scratch, e.reps())
 			for k := range s {
@@ -258,53 +324,54 @@ func (e *engine) run(ctx context.Context, units []unit, out *Result) error {
 				if err != nil {
 					return err
 				}
-				results[w] = append(results[w], res)
+				select {
+				case finished <- res:
+				case <-gctx.Done():
+					return gctx.Err()
+				}
 			}
 		})
 	}
-	done := make(chan struct{})
-	var wg sync.WaitGroup
-	if e.opts.Progress != nil {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			tick := time.NewTicker(e.opts.ProgressEvery)
-			defer tick.Stop()
-			for {
-				select {
-				case <-done:
-					return
-				case <-tick.C:
-					e.opts.Progress(Progress{Rays: e.traced.Load(), Planned: base + planned, Elapsed: time.Since(e.start)})
+	var werr error
+	waited := make(chan struct{})
+	go func() {
+		werr = g.Wait()
+		close(finished)
+		close(waited)
+	}()
+	progress := time.NewTicker(e.opts.ProgressEvery)
+	defer progress.Stop()
+	checkpoint := time.NewTicker(e.opts.CheckpointEvery)
+	defer checkpoint.Stop()
+	report := func() {
+		if e.opts.Progress != nil {
+			e.opts.Progress(Progress{Rays: e.traced.Load(), Planned: base + planned, Elapsed: time.Since(e.start)})
+		}
+	}
+	var cerr error
+	for {
+		select {
+		case r, ok := <-finished:
+			if !ok {
+				<-waited
+				report()
+				if cerr != nil {
+					return cerr
 				}
+				return werr
 			}
-		}()
-	}
-	err := g.Wait()
-	close(done)
-	wg.Wait()
-	// Sum whatever units finished; integer sums do not depend on the order.
-	add := func(t *Tally, r *unitResult, k int) {
-		i := r.u.node
-		t.Rays[i] += r.rays[k]
-		t.Escaped[i] += r.escaped[k]
-		t.Hits[i] = t.Hits[i].Add(r.hits[k])
-		t.Back[i] = t.Back[i].Add(r.backHit[k])
-	}
-	for _, rs := range results {
-		for _, r := range rs {
-			for k := range r.rays {
-				add(&out.Tally, &r, k)
-				if len(out.Replicas) > 0 {
-					add(&out.Replicas[k], &r, k)
+			out.add(&r)
+		case <-progress.C:
+			report()
+		case <-checkpoint.C:
+			if e.opts.OnCheckpoint != nil && cerr == nil {
+				ck := out.Checkpoint()
+				if cerr = e.opts.OnCheckpoint(&ck); cerr != nil {
+					cerr = fmt.Errorf("checkpoint: %w", cerr)
 				}
 			}
 		}
 	}
-	if e.opts.Progress != nil {
-		e.opts.Progress(Progress{Rays: e.traced.Load(), Planned: base + planned, Elapsed: time.Since(e.start)})
-	}
-	return err
 }
 
 // chunk is how many rays are generated and traced together.
@@ -315,22 +382,22 @@ const chunk = 64
 // ray r is tallied in replicate r mod reps.
 func (e *engine) trace(ctx context.Context, u unit, s []*scratch, b *bvh.Batch) (unitResult, error) {
 	batch := e.opts.BatchSize
-	st := sample.NewStream(e.opts.Seed, int64(u.node), u.lo/batch)
-	st.Skip(uint64(u.lo%batch) * numbersPerRay)
-	ne := &e.nodeEm[u.node]
+	st := sample.NewStream(e.opts.Seed, int64(u.Node), u.Lo/batch)
+	st.Skip(uint64(u.Lo%batch) * numbersPerRay)
+	ne := &e.nodeEm[u.Node]
 	var qs [chunk]bvh.Query
 	var hs [chunk]bvh.Hit
 	reps := int64(len(s))
 	res := unitResult{u: u, rays: make([]int64, reps), escaped: make([]int64, reps), hits: make([]Row, reps), backHit: make([]Row, reps)}
 	front, back, surf := e.nm.front, e.nm.back, e.m.SurfaceOf
-	for lo := u.lo; lo < u.hi; lo += chunk {
+	for lo := u.Lo; lo < u.Hi; lo += chunk {
 		if err := ctx.Err(); err != nil {
 			for k := range s {
 				s[k].take() // leave the scratch clean
 			}
 			return res, err
 		}
-		n := int(min(chunk, u.hi-lo))
+		n := int(min(chunk, u.Hi-lo))
 		for k := range n {
 			qs[k] = ne.ray(&st, e.em)
 		}

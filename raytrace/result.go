@@ -15,12 +15,15 @@ type Result struct {
 	Tally
 	// Replicas are the tallies of the Options.Replicates sub-samples; they
 	// add up to Tally.
-	Replicas     []Tally
+	Replicas []Tally
+	// Targets are the planned rays per node of the last round.
+	Targets      []int64
 	Options      Options
 	BuildSeconds float64
 	TraceSeconds float64
 	Threads      int
 	z            float64
+	done         []UnitID // finished work units
 }
 
 // Factor is one view-factor estimate.

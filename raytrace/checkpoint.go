@@ -1,0 +1,170 @@
+package raytrace
+
+import (
+	"fmt"
+	"slices"
+)
+
+// Checkpoint is the finished part of a run: the planned rays per node of
+// the current round, the work units done, and their tallies. A run resumed
+// from it (Options.Resume) gives exactly the result it would have given
+// uninterrupted; checkpoints of disjoint shards add up (Merge).
+type Checkpoint struct {
+	Targets  []int64
+	Done     []UnitID // sorted by node, then Lo
+	Tally    Tally
+	Replicas []Tally
+}
+
+// add records a finished unit.
+func (r *Result) add(u *unitResult) {
+	add := func(t *Tally, k int) {
+		i := u.u.Node
+		t.Rays[i] += u.rays[k]
+		t.Escaped[i] += u.escaped[k]
+		t.Hits[i] = t.Hits[i].Add(u.hits[k])
+		t.Back[i] = t.Back[i].Add(u.backHit[k])
+	}
+	for k := range u.rays {
+		add(&r.Tally, k)
+		if len(r.Replicas) > 0 {
+			add(&r.Replicas[k], k)
+		}
+	}
+	r.done = append(r.done, u.u)
+}
+
+// copyTally returns a copy that later adds to t do not change. Rows are
+// never modified in place (Row.Add makes new ones), so they are shared.
+func copyTally(t *Tally) Tally {
+	return Tally{
+		Rays: slices.Clone(t.Rays), Escaped: slices.Clone(t.Escaped),
+		Hits: slices.Clone(t.Hits), Back: slices.Clone(t.Back),
+	}
+}
+
+// Checkpoint returns a snapshot of the finished work.
+func (r *Result) Checkpoint() Checkpoint {
+	ck := Checkpoint{Targets: slices.Clone(r.Targets), Done: slices.Clone(r.done), Tally: copyTally(&r.Tally)}
+	for k := range r.Replicas {
+		ck.Replicas = append(ck.Replicas, copyTally(&r.Replicas[k]))
+	}
+	slices.SortFunc(ck.Done, compareUnits)
+	return ck
+}
+
+func compareUnits(a, b UnitID) int {
+	if a.Node != b.Node {
+		return int(a.Node - b.Node)
+	}
+	switch {
+	case a.Lo < b.Lo:
+		return -1
+	case a.Lo > b.Lo:
+		return 1
+	}
+	return 0
+}
+
+// resume starts r from a checkpoint of the same nodes and settings.
+func (r *Result) resume(ck *Checkpoint) error {
+	n := len(r.Nodes)
+	if len(ck.Targets) != n || len(ck.Tally.Rays) != n || len(ck.Replicas) != len(r.Replicas) {
+		return fmt.Errorf("the checkpoint has %d nodes and %d replicates; this run has %d and %d", len(ck.Targets), len(ck.Replicas), n, len(r.Replicas))
+	}
+	r.Targets = slices.Clone(ck.Targets)
+	r.done = slices.Clone(ck.Done)
+	r.Tally = copyTally(&ck.Tally)
+	for k := range ck.Replicas {
+		r.Replicas[k] = copyTally(&ck.Replicas[k])
+	}
+	return nil
+}
+
+// pending returns the units of the current targets that are neither done
+// nor another shard's.
+func (r *Result) pending() []unit {
+	done := make(map[UnitID]bool, len(r.done))
+	for _, u := range r.done {
+		done[u] = true
+	}
+	var out []unit
+	for _, u := range planUnits(r.Targets, &r.Options) {
+		if done[u] || (r.Options.Shards > 1 && shardOf(u, r.Options.BatchSize, r.Options.Shards) != r.Options.Shard) {
+			continue
+		}
+		out = append(out, u)
+	}
+	return out
+}
+
+// Merge adds the checkpoints of the shards of one run. It refuses shards
+// whose targets differ, and units traced twice or not at all.
+func Merge(parts []*Checkpoint, o Options) (*Checkpoint, error) {
+	if err := o.defaults(); err != nil {
+		return nil, err
+	}
+	if len(parts) == 0 {
+		return nil, fmt.Errorf("no parts to merge")
+	}
+	first := parts[0]
+	out := &Checkpoint{Targets: slices.Clone(first.Targets), Tally: *newTally(len(first.Targets))}
+	for range first.Replicas {
+		out.Replicas = append(out.Replicas, *newTally(len(first.Targets)))
+	}
+	for k, p := range parts {
+		if !slices.Equal(p.Targets, first.Targets) || len(p.Replicas) != len(first.Replicas) {
+			return nil, fmt.Errorf("part %d was traced with other targets or replicates than part 0", k)
+		}
+		out.Done = append(out.Done, p.Done...)
+		addTally(&out.Tally, &p.Tally)
+		for j := range p.Replicas {
+			addTally(&out.Replicas[j], &p.Replicas[j])
+		}
+	}
+	slices.SortFunc(out.Done, compareUnits)
+	want := planUnits(out.Targets, &o)
+	if len(want) != len(out.Done) || !slices.Equal(want, out.Done) {
+		return nil, coverageError(want, out.Done)
+	}
+	return out, nil
+}
+
+func addTally(dst, src *Tally) {
+	for i := range dst.Rays {
+		dst.Rays[i] += src.Rays[i]
+		dst.Escaped[i] += src.Escaped[i]
+		dst.Hits[i] = dst.Hits[i].Add(src.Hits[i])
+		dst.Back[i] = dst.Back[i].Add(src.Back[i])
+	}
+}
+
+// coverageError explains how the merged units differ from the plan.
+func coverageError(want, got []UnitID) error {
+	count := map[UnitID]int{}
+	for _, u := range got {
+		count[u]++
+	}
+	missing, twice := 0, 0
+	var ex UnitID
+	for _, u := range want {
+		switch count[u] {
+		case 0:
+			if missing == 0 {
+				ex = u
+			}
+			missing++
+		case 1:
+		default:
+			twice++
+		}
+		delete(count, u)
+	}
+	switch {
+	case twice > 0:
+		return fmt.Errorf("%d work units were traced by more than one part: a shard is repeated", twice)
+	case missing > 0:
+		return fmt.Errorf("%d work units are missing (the first: node %d, rays %d–%d): a shard is missing or unfinished", missing, ex.Node, ex.Lo, ex.Hi)
+	}
+	return fmt.Errorf("%d work units do not belong to this run's plan", len(count))
+}

@@ -1,0 +1,142 @@
+package raytrace
+
+import (
+	"bytes"
+	"context"
+	"crypto/sha256"
+	"errors"
+	"reflect"
+	"strings"
+	"testing"
+	"time"
+)
+
+func baseOpts() Options {
+	return Options{Rays: 20000, Seed: 21, BatchSize: 4096, Replicates: 3}
+}
+
+// Shards 1/1 … 7/7 merged give exactly the single run's tallies.
+func TestShardsMergeExactly(t *testing.T) {
+	m := ReferenceCases()[1].Mesh
+	single, err := Estimate(context.Background(), m, baseOpts())
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := single.Checkpoint()
+	for n := 1; n <= 7; n++ {
+		var parts []*Checkpoint
+		for i := range n {
+			o := baseOpts()
+			o.Shard, o.Shards = i, n
+			r, err := Estimate(context.Background(), m, o)
+			if err != nil {
+				t.Fatal(err)
+			}
+			ck := r.Checkpoint()
+			parts = append(parts, &ck)
+		}
+		got, err := Merge(parts, baseOpts())
+		if err != nil {
+			t.Fatalf("%d shards: %v", n, err)
+		}
+		if !reflect.DeepEqual(got.Tally, want.Tally) || !reflect.DeepEqual(got.Replicas, want.Replicas) || !reflect.DeepEqual(got.Done, want.Done) {
+			t.Errorf("%d shards merged differ from the single run", n)
+		}
+		if n == 3 {
+			if _, err := Merge(parts[:2], baseOpts()); err == nil || !strings.Contains(err.Error(), "missing") {
+				t.Errorf("missing shard: %v", err)
+			}
+			if _, err := Merge(append(parts, parts[1]), baseOpts()); err == nil || !strings.Contains(err.Error(), "more than one part") {
+				t.Errorf("repeated shard: %v", err)
+			}
+		}
+	}
+}
+
+// A run cancelled part way and resumed from its checkpoint gives the
+// uninterrupted run's tallies, also across a HalfWidth round.
+func TestResumeAfterCancel(t *testing.T) {
+	m := ReferenceCases()[0].Mesh
+	opts := Options{Rays: 3000, HalfWidth: 0.006, Seed: 8, BatchSize: 512}
+	whole, err := Estimate(context.Background(), m, opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := whole.Checkpoint()
+	for _, stopAfter := range []int{1, 5, 20} {
+		ctx, cancel := context.WithCancel(context.Background())
+		o := opts
+		o.Threads = 1
+		var last *Checkpoint
+		o.CheckpointEvery = time.Millisecond
+		o.OnCheckpoint = func(ck *Checkpoint) error {
+			last = ck
+			if len(ck.Done) >= stopAfter {
+				cancel()
+			}
+			return nil
+		}
+		r, err := Estimate(ctx, m, o)
+		if err == nil {
+			t.Fatalf("stop after %d units: the run was not interrupted", stopAfter)
+		}
+		ck := r.Checkpoint()
+		if last == nil || len(ck.Done) < len(last.Done) {
+			t.Fatalf("final checkpoint has fewer units than the periodic one")
+		}
+		o = opts
+		o.Resume = &ck
+		r, err = Estimate(context.Background(), m, o)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := r.Checkpoint()
+		if !reflect.DeepEqual(got.Tally, want.Tally) || !reflect.DeepEqual(got.Targets, want.Targets) {
+			t.Errorf("stop after %d units: resumed run differs from the uninterrupted one", stopAfter)
+		}
+	}
+}
+
+func TestTallyFileRoundTripAndCorruption(t *testing.T) {
+	r, err := Estimate(context.Background(), ReferenceCases()[1].Mesh, baseOpts())
+	if err != nil {
+		t.Fatal(err)
+	}
+	ck := r.Checkpoint()
+	var b bytes.Buffer
+	if err := WriteTallyFile(&b, &ck, []byte(`{"x":1}`)); err != nil {
+		t.Fatal(err)
+	}
+	got, meta, err := ReadTallyFile(b.Bytes())
+	if err != nil || string(meta) != `{"x":1}` || !reflect.DeepEqual(*got, ck) {
+		t.Fatalf("round trip: %v, meta %q, equal %v", err, meta, reflect.DeepEqual(*got, ck))
+	}
+	data := b.Bytes()
+	bad := map[string][]byte{
+		"truncated": data[:len(data)-100],
+		"empty":     nil,
+		"foreign":   []byte("solid x\nendsolid x\n" + strings.Repeat(" ", 64)),
+		"bit flip":  append(append([]byte{}, data[:60]...), append([]byte{data[60] ^ 1}, data[61:]...)...),
+	}
+	for name, d := range bad {
+		if _, _, err := ReadTallyFile(d); !errors.Is(err, ErrTallyFile) {
+			t.Errorf("%s: %v, want ErrTallyFile", name, err)
+		}
+	}
+}
+
+func FuzzReadTallyFile(f *testing.F) {
+	r, _ := Estimate(context.Background(), ReferenceCases()[0].Mesh, Options{Rays: 500, BatchSize: 128, Replicates: 2})
+	ck := r.Checkpoint()
+	var b bytes.Buffer
+	WriteTallyFile(&b, &ck, []byte("{}"))
+	f.Add(b.Bytes())
+	f.Fuzz(func(t *testing.T, data []byte) {
+		// Fix up the checksum half the time so the parser itself is exercised.
+		if len(data) > 40 && data[0]&1 == 0 {
+			sum := sha256.Sum256(data[:len(data)-32])
+			copy(data[len(data)-32:], sum[:])
+		}
+		ReadTallyFile(data)
+	})
+}
