@@ -168,16 +168,21 @@ func Estimate(ctx context.Context, m *mesh.Mesh, opts Options) (*Result, error) 
 	for i := range r.Targets {
 		r.Targets[i] = opts.Rays
 	}
-	if opts.Targets != nil {
-		if len(opts.Targets) != len(nm.nodes) {
-			return nil, fmt.Errorf("the plan has targets for %d nodes, the model has %d", len(opts.Targets), len(nm.nodes))
-		}
-		copy(r.Targets, opts.Targets)
-	}
 	if ck := opts.Resume; ck != nil {
 		if err := r.resume(ck); err != nil {
 			return nil, err
 		}
+	}
+	if opts.Targets != nil {
+		if len(opts.Targets) != len(nm.nodes) {
+			return nil, fmt.Errorf("the plan has targets for %d nodes, the model has %d", len(opts.Targets), len(nm.nodes))
+		}
+		for i, t := range opts.Targets {
+			if t < r.Targets[i] {
+				return nil, fmt.Errorf("the plan asks node %d for %d rays, fewer than the %d already planned", i, t, r.Targets[i])
+			}
+		}
+		copy(r.Targets, opts.Targets)
 	}
 	e := &engine{m: m, tree: tree, em: em, nm: nm, opts: &opts, start: start}
 	e.nodeEm = make([]nodeEmitter, len(nm.nodes))

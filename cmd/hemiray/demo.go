@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"time"
 
 	"github.com/hemiray/hemiray/geometry"
 	"github.com/hemiray/hemiray/mesh"
@@ -159,11 +160,12 @@ DIR/results. The case file is a commented starting point for your own.`,
 		if err := preflight(in); err != nil {
 			return err
 		}
-		res, err := traceInput(ctx, in, &tf, stderr)
+		tf.checkpointEvery = time.Minute
+		res, st, err := executeTrace(ctx, in, &tf, stderr)
 		if err != nil {
 			return err
 		}
-		return finishRun(in, res, stdout, stderr)
+		return finishRun(in, res, st, stdout, stderr)
 	}
 	return c
 }

@@ -66,11 +66,14 @@ confidence). The README documents the case file.`,
 		if err := preflight(in); err != nil {
 			return err
 		}
-		res, err := traceInput(ctx, in, &tf, stderr)
+		res, st, err := executeTrace(ctx, in, &tf, stderr)
 		if err != nil {
 			return err
 		}
-		return finishRun(in, res, stdout, stderr)
+		if in.opts.Shards > 1 {
+			return finishShard(in, res, stdout)
+		}
+		return finishRun(in, res, st, stdout, stderr)
 	}
 	return c
 }
@@ -99,9 +102,12 @@ func preflight(in *input) error {
 }
 
 // finishRun writes everything and prints the heat balance.
-func finishRun(in *input, res *raytrace.Result, stdout, stderr io.Writer) error {
+func finishRun(in *input, res *raytrace.Result, st traceState, stdout, stderr io.Writer) error {
 	names := surfaceNames(in.mesh)
 	warnings := res.Warnings(names)
+	if st.timeLimit {
+		warnings = append(warnings, "the time limit stopped the trace early: the intervals are wider than planned (summary.json: complete = false)")
+	}
 	a, err := analyse(in.lc, res)
 	if err != nil {
 		return err
@@ -121,12 +127,13 @@ func finishRun(in *input, res *raytrace.Result, stdout, stderr io.Writer) error 
 	if err != nil {
 		return err
 	}
-	written = append(append(written, tallyFile), more...)
+	written = append(append(written, tallyFile, checkpointFile), more...)
 	sum, err := newSummary(in, res, warnings)
 	if err != nil {
 		return err
 	}
 	sum.Extra = analysisSummary(a)
+	sum.Complete = st.complete
 	if err := writeJSON(filepath.Join(in.outDir, "summary.json"), sum); err != nil {
 		return err
 	}
@@ -183,7 +190,7 @@ the ray settings is refused (the input hash in summary.json differs).`,
 		if err != nil {
 			return err
 		}
-		return finishRun(in, res, stdout, stderr)
+		return finishRun(in, res, traceState{complete: true}, stdout, stderr)
 	}
 	return c
 }

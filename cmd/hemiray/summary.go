@@ -34,6 +34,7 @@ type summary struct {
 	HalfWidthTarget float64                 `json:"halfwidth_target,omitempty"`
 	Confidence      float64                 `json:"confidence"`
 	FacetNodes      bool                    `json:"facet_nodes"`
+	Complete        bool                    `json:"complete"` // false when a time limit stopped the trace
 	RaysTraced      int64                   `json:"rays_traced"`
 	EscapedRays     int64                   `json:"escaped_rays"`
 	BackFaceRays    int64                   `json:"backface_rays"`

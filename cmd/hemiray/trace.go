@@ -5,7 +5,6 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"encoding/json"
-	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -15,6 +14,7 @@ import (
 	"sort"
 	"strings"
 	"text/tabwriter"
+	"time"
 
 	"github.com/hemiray/hemiray/mesh"
 	"github.com/hemiray/hemiray/raytrace"
@@ -41,6 +41,12 @@ type traceFlags struct {
 	twoSided   string
 	out        string
 	quiet      bool
+
+	checkpointEvery time.Duration
+	resume          bool
+	timeLimit       time.Duration
+	shard           string
+	plan            string
 }
 
 func (tf *traceFlags) register(fs *flag.FlagSet) {
@@ -56,6 +62,11 @@ func (tf *traceFlags) register(fs *flag.FlagSet) {
 	fs.StringVar(&tf.twoSided, "two-sided", "", "comma-separated surfaces whose back is a node NAME.back (meshes given directly)")
 	fs.StringVar(&tf.out, "o", "", "output folder (default: the case's output.dir, else hemiray-out)")
 	fs.BoolVar(&tf.quiet, "quiet", false, "no progress output")
+	fs.DurationVar(&tf.checkpointEvery, "checkpoint-every", time.Minute, "write the checkpoint DIR/tallies.bin this often (and on Ctrl-C or SIGTERM)")
+	fs.BoolVar(&tf.resume, "resume", false, "continue from the checkpoint in the output folder")
+	fs.DurationVar(&tf.timeLimit, "time-limit", 0, "stop cleanly after this long and write the precision reached (e.g. 7h30m)")
+	fs.StringVar(&tf.shard, "shard", "", "trace only share I of N (I/N, from 0) and write only DIR/tallies.bin; combine with merge")
+	fs.StringVar(&tf.plan, "plan", "", "with --shard: the next --halfwidth round's plan.json written by merge")
 }
 
 // input is a model to trace with its settings, from a case file or meshes.
@@ -66,6 +77,9 @@ type input struct {
 	opts     raytrace.Options
 	outDir   string
 	settings map[string]any // what determines the result, for the input hash
+	units    string         // length unit of mesh files given directly
+	// byMaterial: OBJ surfaces by material, for mesh files given directly.
+	byMaterial bool
 }
 
 // loadInput reads the positional arguments (one .toml case or mesh files)
@@ -78,11 +92,13 @@ func loadInput(fs *flag.FlagSet, tf *traceFlags, args []string) (*input, error) 
 	fs.Visit(func(f *flag.Flag) { set[f.Name] = true })
 	in := &input{outDir: "hemiray-out"}
 	opts := &in.opts
+	var err error
 	if len(args) == 1 && strings.EqualFold(filepath.Ext(args[0]), ".toml") {
 		lc, err := readCase(args[0])
 		if err != nil {
 			return nil, err
 		}
+		in.units, in.byMaterial = lc.c.Model.Units, lc.c.Model.GroupBy == "material"
 		for _, f := range []string{"units", "by-material", "two-sided"} {
 			if set[f] {
 				return nil, usagef("--%s applies to mesh files given directly; the case file sets it", f)
@@ -117,6 +133,7 @@ func loadInput(fs *flag.FlagSet, tf *traceFlags, args []string) (*input, error) 
 			return nil, err
 		}
 		in.files = args
+		in.units, in.byMaterial = string(unit), tf.byMaterial
 		if tf.twoSided != "" {
 			opts.TwoSided = strings.Split(tf.twoSided, ",")
 		}
@@ -151,6 +168,19 @@ func loadInput(fs *flag.FlagSet, tf *traceFlags, args []string) (*input, error) 
 		return nil, usagef("--halfwidth must be in (0, 0.5)")
 	}
 	opts.MemoryLimit = availableMemory()
+	if tf.shard != "" {
+		if opts.Shard, opts.Shards, err = parseShard(tf.shard); err != nil {
+			return nil, err
+		}
+	}
+	if tf.plan != "" {
+		if tf.shard == "" {
+			return nil, usagef("--plan goes with --shard")
+		}
+		if opts.Targets, err = readPlan(tf.plan); err != nil {
+			return nil, err
+		}
+	}
 	two := append([]string(nil), opts.TwoSided...)
 	sort.Strings(two)
 	var flipped []string
@@ -164,6 +194,7 @@ func loadInput(fs *flag.FlagSet, tf *traceFlags, args []string) (*input, error) 
 	in.settings = map[string]any{
 		"rays": opts.Rays, "halfwidth": opts.HalfWidth, "max_rays": opts.MaxRays, "seed": opts.Seed,
 		"facets": opts.FacetNodes, "two_sided": two, "flipped": flipped, "batch": raytrace.DefaultBatchSize,
+		"units": in.units, "by_material": in.byMaterial,
 	}
 	return in, nil
 }
@@ -179,9 +210,6 @@ func (in *input) hash() (string, error) {
 		}
 		fmt.Fprintf(h, "%s %d\n", filepath.Base(f), len(b))
 		h.Write(b)
-	}
-	if in.lc != nil {
-		fmt.Fprintf(h, "units %s group %s\n", in.lc.c.Model.Units, in.lc.c.Model.GroupBy)
 	}
 	s, _ := json.Marshal(in.settings)
 	h.Write(s)
@@ -236,34 +264,32 @@ on the command line override the case file.`,
 		if err != nil {
 			return err
 		}
-		res, err := traceInput(ctx, in, &tf, stderr)
+		res, st, err := executeTrace(ctx, in, &tf, stderr)
 		if err != nil {
 			return err
 		}
-		return finishTrace(in, res, stdout, stderr)
+		if in.opts.Shards > 1 {
+			return finishShard(in, res, stdout)
+		}
+		return finishTrace(in, res, st, stdout, stderr)
 	}
 	return c
 }
 
-// traceInput runs the estimator with progress reporting.
-func traceInput(ctx context.Context, in *input, tf *traceFlags, stderr io.Writer) (*raytrace.Result, error) {
-	progress, done := progressReporter(stderr, tf.quiet)
-	in.opts.Progress = progress
-	res, err := raytrace.Estimate(ctx, in.mesh, in.opts)
-	done()
-	if err != nil {
-		if errors.Is(err, context.Canceled) {
-			return nil, errors.New("interrupted; nothing written")
-		}
-		return nil, err
-	}
-	return res, nil
+// finishShard reports a shard's share; only tallies.bin is written.
+func finishShard(in *input, res *raytrace.Result, stdout io.Writer) error {
+	fmt.Fprintf(stdout, "shard %d/%d: %d rays traced; wrote %s (combine the shards with: hemiray merge -o DIR PART...)\n",
+		in.opts.Shard, in.opts.Shards, res.RaysTraced(), filepath.Join(in.outDir, checkpointFile))
+	return nil
 }
 
 // finishTrace writes the view-factor files and prints a summary.
-func finishTrace(in *input, res *raytrace.Result, stdout, stderr io.Writer) error {
+func finishTrace(in *input, res *raytrace.Result, st traceState, stdout, stderr io.Writer) error {
 	names := surfaceNames(in.mesh)
 	warnings := res.Warnings(names)
+	if st.timeLimit {
+		warnings = append(warnings, "the time limit stopped the trace early: the intervals are wider than planned (summary.json: complete = false)")
+	}
 	for _, w := range warnings {
 		fmt.Fprintf(stderr, "hemiray: warning: %s\n", w)
 	}
@@ -271,6 +297,7 @@ func finishTrace(in *input, res *raytrace.Result, stdout, stderr io.Writer) erro
 	if err != nil {
 		return err
 	}
+	sum.Complete = st.complete
 	written, err := writeViewFactors(in.outDir, res)
 	if err != nil {
 		return err
@@ -281,10 +308,14 @@ func finishTrace(in *input, res *raytrace.Result, stdout, stderr io.Writer) erro
 	if err := writeJSON(filepath.Join(in.outDir, "summary.json"), sum); err != nil {
 		return err
 	}
-	written = append(written, tallyFile, "summary.json")
+	written = append(written, tallyFile, checkpointFile, "summary.json")
 	printNodes(stdout, res)
-	fmt.Fprintf(stdout, "\n%d rays in %.2f s (%.3g Mrays/s on %d threads); BVH built in %.2f s\n",
-		res.RaysTraced(), res.TraceSeconds, float64(res.RaysTraced())/res.TraceSeconds/1e6, res.Threads, res.BuildSeconds)
+	if res.TraceSeconds > 0 {
+		fmt.Fprintf(stdout, "\n%d rays in %.2f s (%.3g Mrays/s on %d threads); BVH built in %.2f s\n",
+			res.RaysTraced(), res.TraceSeconds, float64(res.RaysTraced())/res.TraceSeconds/1e6, res.Threads, res.BuildSeconds)
+	} else {
+		fmt.Fprintf(stdout, "\n%d rays, merged from saved tallies\n", res.RaysTraced())
+	}
 	fmt.Fprintf(stdout, "wrote %s: %s\n", in.outDir, strings.Join(written, ", "))
 	return nil
 }

@@ -1,0 +1,206 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"math/rand/v2"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"syscall"
+	"testing"
+	"time"
+
+	"github.com/hemiray/hemiray/geometry"
+	"github.com/hemiray/hemiray/mesh"
+)
+
+// TestMain lets tests run the command in a subprocess: the test binary
+// re-executes itself as hemiray when HEMIRAY_TEST_MAIN is set.
+func TestMain(m *testing.M) {
+	if os.Getenv("HEMIRAY_TEST_MAIN") == "1" {
+		os.Args = append([]string{"hemiray"}, os.Args[1:]...)
+		main()
+	}
+	os.Exit(m.Run())
+}
+
+func hemirayCmd(args ...string) *exec.Cmd {
+	cmd := exec.Command(os.Args[0], args...)
+	cmd.Env = append(os.Environ(), "HEMIRAY_TEST_MAIN=1")
+	return cmd
+}
+
+// writeBox writes a closed, inward box of 6 surfaces as OBJ.
+func writeBox(t *testing.T, dir string) string {
+	t.Helper()
+	p := filepath.Join(dir, "box.obj")
+	f, err := os.Create(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	if err := mesh.WriteOBJ(f, mesh.Box("", geometry.Box{Max: geometry.Vec3{X: 1, Y: 2, Z: 0.5}}, 24, true)); err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+var compared = []string{"viewfactors.csv", "viewfactors_halfwidth.csv", "viewfactors_pairs.csv", "tallies.csv", "tallies.bin"}
+
+func sameOutputs(t *testing.T, a, b string) {
+	t.Helper()
+	for _, f := range compared {
+		x, err1 := os.ReadFile(filepath.Join(a, f))
+		y, err2 := os.ReadFile(filepath.Join(b, f))
+		if err1 != nil || err2 != nil || !bytes.Equal(x, y) {
+			t.Errorf("%s differs between %s and %s (%v, %v)", f, a, b, err1, err2)
+		}
+	}
+}
+
+// A trace killed with SIGKILL at random moments and resumed gives the
+// uninterrupted run's files, byte for byte.
+func TestKillAndResume(t *testing.T) {
+	if testing.Short() {
+		t.Skip("runs the tracer in subprocesses for several seconds")
+	}
+	dir := t.TempDir()
+	box := writeBox(t, dir)
+	args := []string{"trace", box, "--rays", "200000", "--seed", "5", "--quiet", "--checkpoint-every", "20ms"}
+	ref := filepath.Join(dir, "ref")
+	if out, err := hemirayCmd(append(args, "-o", ref)...).CombinedOutput(); err != nil {
+		t.Fatalf("reference run: %v\n%s", err, out)
+	}
+	rng := rand.New(rand.NewPCG(3, 4))
+	for k := range 3 {
+		out := filepath.Join(dir, "killed", string(rune('a'+k)))
+		cmd := hemirayCmd(append(args, "-o", out)...)
+		if err := cmd.Start(); err != nil {
+			t.Fatal(err)
+		}
+		time.Sleep(time.Duration(100+rng.IntN(500)) * time.Millisecond)
+		cmd.Process.Kill()
+		cmd.Wait()
+		res, err := hemirayCmd(append(args, "-o", out, "--resume")...).CombinedOutput()
+		if err != nil {
+			t.Fatalf("resume %d: %v\n%s", k, err, res)
+		}
+		sameOutputs(t, ref, out)
+	}
+}
+
+// SIGTERM (what a batch scheduler sends before its time limit) writes a
+// checkpoint before the process exits.
+func TestSigtermWritesCheckpoint(t *testing.T) {
+	if testing.Short() {
+		t.Skip("runs the tracer in a subprocess")
+	}
+	dir := t.TempDir()
+	box := writeBox(t, dir)
+	out := filepath.Join(dir, "out")
+	cmd := hemirayCmd("trace", box, "--rays", "2000000", "--quiet", "--checkpoint-every", "1h", "-o", out)
+	var stderr bytes.Buffer
+	cmd.Stderr = &stderr
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	time.Sleep(700 * time.Millisecond)
+	cmd.Process.Signal(syscall.SIGTERM)
+	err := cmd.Wait()
+	if err == nil || !strings.Contains(stderr.String(), "checkpoint written") {
+		t.Fatalf("exit %v, stderr %q", err, stderr.String())
+	}
+	if _, _, err := readCheckpoint(out); err != nil {
+		t.Fatalf("checkpoint after SIGTERM: %v", err)
+	}
+}
+
+// Resuming with another seed or a changed mesh is refused, naming the change;
+// a corrupted checkpoint is a clear error.
+func TestResumeRefusesChanges(t *testing.T) {
+	dir := t.TempDir()
+	box := writeBox(t, dir)
+	out := filepath.Join(dir, "out")
+	if code, _, e := runCLI("trace", box, "--rays", "2000", "--quiet", "-o", out); code != 0 {
+		t.Fatal(e)
+	}
+	code, _, e := runCLI("trace", box, "--rays", "2000", "--seed", "9", "--quiet", "--resume", "-o", out)
+	if code != 1 || !strings.Contains(e, "seed changed from 1 to 9") {
+		t.Errorf("seed change: exit %d, %q", code, e)
+	}
+	os.WriteFile(box, append(mustRead(t, box), []byte("v 9 9 9\n")...), 0o644)
+	code, _, e = runCLI("trace", box, "--rays", "2000", "--quiet", "--resume", "-o", out)
+	if code != 1 || !strings.Contains(e, "box.obj has changed") {
+		t.Errorf("mesh change: exit %d, %q", code, e)
+	}
+	ck := filepath.Join(out, "tallies.bin")
+	b := mustRead(t, ck)
+	os.WriteFile(ck, b[:len(b)/2], 0o644)
+	code, _, e = runCLI("merge", "-o", filepath.Join(dir, "m"), out)
+	if code != 1 || !strings.Contains(e, "not a valid hemiray tally file") || strings.Contains(e, "panic") {
+		t.Errorf("truncated tallies: exit %d, %q", code, e)
+	}
+}
+
+func mustRead(t *testing.T, p string) []byte {
+	t.Helper()
+	b, err := os.ReadFile(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return b
+}
+
+// Shards 1/1 … 7/7 merged give the single run's files; shards of another
+// seed are refused.
+func TestShardMergeCLI(t *testing.T) {
+	dir := t.TempDir()
+	box := writeBox(t, dir)
+	args := []string{"trace", box, "--rays", "30000", "--quiet"}
+	single := filepath.Join(dir, "single")
+	if code, _, e := runCLI(append(args, "-o", single)...); code != 0 {
+		t.Fatal(e)
+	}
+	for n := 1; n <= 7; n++ {
+		var parts []string
+		for i := range n {
+			p := filepath.Join(dir, "parts", string(rune('0'+n)), string(rune('0'+i)))
+			if code, _, e := runCLI(append(args, "--shard", string(rune('0'+i))+"/"+string(rune('0'+n)), "-o", p)...); code != 0 {
+				t.Fatal(e)
+			}
+			parts = append(parts, p)
+		}
+		merged := filepath.Join(dir, "merged", string(rune('0'+n)))
+		if code, _, e := runCLI(append([]string{"merge", "-o", merged}, parts...)...); code != 0 {
+			t.Fatalf("merge of %d: %s", n, e)
+		}
+		sameOutputs(t, single, merged)
+	}
+	other := filepath.Join(dir, "other")
+	runCLI(append(args, "--seed", "2", "--shard", "1/2", "-o", other)...)
+	code, _, e := runCLI("merge", "-o", filepath.Join(dir, "bad"), filepath.Join(dir, "parts", "2", "0"), other)
+	if code != 1 || !strings.Contains(e, "not shards of one run") {
+		t.Errorf("mismatched shards: exit %d, %q", code, e)
+	}
+}
+
+
+// --time-limit stops cleanly, writes the precision reached and flags it.
+func TestTimeLimit(t *testing.T) {
+	dir := t.TempDir()
+	box := writeBox(t, dir)
+	out := filepath.Join(dir, "out")
+	code, _, e := runCLI("trace", box, "--rays", "50000000", "--time-limit", "400ms", "--quiet", "-o", out)
+	if code != 0 || !strings.Contains(e, "time limit") {
+		t.Fatalf("exit %d, %q", code, e)
+	}
+	var s summary
+	if err := json.Unmarshal(mustRead(t, filepath.Join(out, "summary.json")), &s); err != nil {
+		t.Fatal(err)
+	}
+	if s.Complete || s.RaysTraced == 0 || s.RaysTraced >= 6*50000000 {
+		t.Errorf("summary after the time limit: complete %v, %d rays", s.Complete, s.RaysTraced)
+	}
+}
