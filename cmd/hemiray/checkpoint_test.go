@@ -186,7 +186,6 @@ func TestShardMergeCLI(t *testing.T) {
 	}
 }
 
-
 // --time-limit stops cleanly, writes the precision reached and flags it.
 func TestTimeLimit(t *testing.T) {
 	dir := t.TempDir()
