@@ -109,8 +109,8 @@ func loadInput(fs *flag.FlagSet, tf *traceFlags, args []string) (*input, error) 
 			in.files = append(in.files, s.Path)
 		}
 		r := lc.c.Rays
-		opts.Rays, opts.HalfWidth, opts.MaxRays, opts.Seed, opts.Confidence, opts.FacetNodes =
-			r.PerNode, r.HalfWidth, r.MaxPerNode, r.Seed, r.Confidence, r.Facets
+		opts.Rays, opts.HalfWidth, opts.MaxRays, opts.Seed, opts.Confidence, opts.FacetNodes, opts.Replicates =
+			r.PerNode, r.HalfWidth, r.MaxPerNode, r.Seed, r.Confidence, r.Facets, r.Replicates
 		opts.TwoSided = lc.twoSidedSurfaces()
 		if lc.c.Output.Dir != "" {
 			in.outDir = lc.c.Output.Dir

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sort"
 )
 
 // Entry is a count k in column J of a row.
@@ -100,6 +101,14 @@ func Smooth(in Counts) (*Result, error) {
 	for i := range n {
 		diagC[i] += amb(i)
 	}
+	// A fixed order of the pairs makes every floating-point sum, and so the
+	// result, the same bit for bit from run to run (map order is random).
+	sort.Slice(offd, func(a, b int) bool {
+		if offd[a].i != offd[b].i {
+			return offd[a].i < offd[b].i
+		}
+		return offd[a].j < offd[b].j
+	})
 	lam := make([]float64, n)
 	for i := range n {
 		lam[i] = float64(in.Rays[i]) / in.Area[i]

@@ -205,3 +205,24 @@ func TestSmoothIdempotentAndZeroPairs(t *testing.T) {
 		}
 	}
 }
+
+// The same counts give the same bits every time (no map-order dependence).
+func TestSmoothDeterministic(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 9))
+	area, F := cube()
+	c := sampleCounts(rng, area, F, nil, 5000)
+	first, err := Smooth(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for range 20 {
+		again, _ := Smooth(c)
+		for i := range first.F {
+			for k := range first.F[i] {
+				if again.F[i][k] != first.F[i][k] {
+					t.Fatalf("row %d entry %d: %v then %v", i, k, first.F[i][k], again.F[i][k])
+				}
+			}
+		}
+	}
+}
