@@ -138,6 +138,7 @@ DIR/results. The case file is a commented starting point for your own.`,
 	tf.register(flag.NewFlagSet("demo-trace", flag.ContinueOnError))
 	c.Flags.IntVar(&tf.threads, "threads", tf.threads, "worker threads")
 	c.Flags.BoolVar(&tf.quiet, "quiet", false, "no progress output")
+	c.Flags.BoolVar(&tf.noPictures, "no-pictures", false, "do not write the PNG pictures and model.vtp")
 	c.Run = func(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 		pos, err := parseArgs(c.Flags, args)
 		if err != nil {

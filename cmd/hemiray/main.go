@@ -30,7 +30,7 @@ func (e usageError) Error() string { return e.msg }
 func usagef(format string, args ...any) error { return usageError{fmt.Sprintf(format, args...)} }
 
 func commands() []*command {
-	return []*command{inspectCommand(), traceCommand(), runCommand(), mergeCommand(), solveCommand(), demoCommand(), verifyCommand()}
+	return []*command{inspectCommand(), traceCommand(), runCommand(), mergeCommand(), solveCommand(), renderCommand(), demoCommand(), verifyCommand()}
 }
 
 func main() {

@@ -138,6 +138,13 @@ func finishRun(in *input, res *raytrace.Result, st traceState, stdout, stderr io
 		return err
 	}
 	written = append(written, "summary.json")
+	if in.pictures {
+		pics, err := writePictures(in.outDir, in, res, a)
+		if err != nil {
+			return err
+		}
+		written = append(written, pics...)
+	}
 	printAnalysis(stdout, res, a)
 	if res.TraceSeconds > 0 {
 		fmt.Fprintf(stdout, "%d rays in %.2f s (%.3g Mrays/s on %d threads)\n", res.RaysTraced(), res.TraceSeconds, float64(res.RaysTraced())/res.TraceSeconds/1e6, res.Threads)

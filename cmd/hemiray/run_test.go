@@ -1,7 +1,10 @@
 package main
 
 import (
+	"bytes"
 	"encoding/csv"
+	"encoding/xml"
+	"image/png"
 	"math"
 	"os"
 	"path/filepath"
@@ -154,5 +157,36 @@ func TestDemo(t *testing.T) {
 	}
 	if !strings.Contains(out, "caution") || strings.Contains(errOut, "warning") {
 		t.Errorf("demo output:\n%s\n%s", out, errOut)
+	}
+	// The pictures and the VTK file a person opens first.
+	for _, f := range []string{"model_surfaces.png", "model_heatflux.png", "viewfactors_heatmap.png", "viewfactors_heatmap_log.png"} {
+		img, err := png.Decode(bytes.NewReader(mustRead(t, filepath.Join(dir, "results", f))))
+		if err != nil || img.Bounds().Dx() < 200 {
+			t.Errorf("%s: %v", f, err)
+		}
+	}
+	if err := xml.Unmarshal(mustRead(t, filepath.Join(dir, "results", "model.vtp")), new(struct{})); err != nil {
+		t.Errorf("model.vtp: %v", err)
+	}
+}
+
+// render draws a model by surface with the requested size, and by a result
+// field from a results folder.
+func TestRenderCommand(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "side.png")
+	code, _, e := runCLI("render", "../../testdata/duct_bend.obj", "--color", "side", "--size", "300x200", "--view", "+z", "-o", out)
+	if code != 0 {
+		t.Fatal(e)
+	}
+	img, err := png.Decode(bytes.NewReader(mustRead(t, out)))
+	if err != nil || img.Bounds().Dx() != 300 || img.Bounds().Dy() != 200 {
+		t.Fatalf("side.png: %v %v", err, img.Bounds())
+	}
+	if code, _, e := runCLI("render", "../../testdata/duct_bend.obj", "--color", "temperature", "--results", dir, "-o", out); code != 1 || !strings.Contains(e, "surfaces.csv") {
+		t.Errorf("field without results: exit %d, %q", code, e)
+	}
+	if code, _, e := runCLI("render", "../../testdata/duct_bend.obj", "--color", "rainbow", "-o", out); code != 2 || !strings.Contains(e, "--color") {
+		t.Errorf("bad colouring: exit %d, %q", code, e)
 	}
 }

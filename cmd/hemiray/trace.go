@@ -47,6 +47,7 @@ type traceFlags struct {
 	timeLimit       time.Duration
 	shard           string
 	plan            string
+	noPictures      bool
 }
 
 func (tf *traceFlags) register(fs *flag.FlagSet) {
@@ -67,6 +68,7 @@ func (tf *traceFlags) register(fs *flag.FlagSet) {
 	fs.DurationVar(&tf.timeLimit, "time-limit", 0, "stop cleanly after this long and write the precision reached (e.g. 7h30m)")
 	fs.StringVar(&tf.shard, "shard", "", "trace only share I of N (I/N, from 0) and write only DIR/tallies.bin; combine with merge")
 	fs.StringVar(&tf.plan, "plan", "", "with --shard: the next --halfwidth round's plan.json written by merge")
+	fs.BoolVar(&tf.noPictures, "no-pictures", false, "run, demo: do not write the PNG pictures and model.vtp")
 }
 
 // input is a model to trace with its settings, from a case file or meshes.
@@ -80,6 +82,7 @@ type input struct {
 	units    string         // length unit of mesh files given directly
 	// byMaterial: OBJ surfaces by material, for mesh files given directly.
 	byMaterial bool
+	pictures   bool // write PNGs and model.vtp with the results
 }
 
 // loadInput reads the positional arguments (one .toml case or mesh files)
@@ -161,6 +164,7 @@ func loadInput(fs *flag.FlagSet, tf *traceFlags, args []string) (*input, error) 
 		in.outDir = tf.out
 	}
 	opts.Threads = tf.threads
+	in.pictures = !tf.noPictures
 	if opts.Rays <= 0 || opts.Threads <= 0 || !(opts.Confidence > 0 && opts.Confidence < 1) {
 		return nil, usagef("--rays and --threads must be positive and --confidence in (0, 1)")
 	}
