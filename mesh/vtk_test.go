@@ -70,14 +70,19 @@ func TestWriteVTP(t *testing.T) {
 		t.Errorf("connectivity has %d indices", n)
 	}
 	// When Debian's python3-vtk9 is installed, VTK's own reader must agree.
-	if _, err := exec.LookPath("python3"); err == nil {
+	// It installs for the system Python, which need not be first on PATH.
+	py := "/usr/bin/python3"
+	if _, err := os.Stat(py); err != nil {
+		py = "python3"
+	}
+	if _, err := exec.LookPath(py); err == nil {
 		dir := t.TempDir()
 		path := filepath.Join(dir, "box.vtp")
 		os.WriteFile(path, b.Bytes(), 0o644)
 		script := `import sys, vtk
 r = vtk.vtkXMLPolyDataReader(); r.SetFileName(sys.argv[1]); r.Update()
 o = r.GetOutput(); print(o.GetNumberOfPoints(), o.GetNumberOfCells(), o.GetCellData().GetArray("area_m2").GetNumberOfTuples())`
-		out, err := exec.Command("python3", "-c", script, path).CombinedOutput()
+		out, err := exec.Command(py, "-c", script, path).CombinedOutput()
 		if err != nil {
 			if strings.Contains(string(out), "No module named") {
 				t.Log("python3-vtk9 not installed: VTK read-back skipped")

@@ -75,7 +75,7 @@ var ErrNoTemperature = errors.New("exchange: a closed enclosure needs at least o
 func (p *Problem) check() ([]int, error) {
 	n := len(p.Area)
 	if len(p.Emissivity) != n || len(p.Cond) != n || len(p.F) != n || (p.Ambient != nil && len(p.Ambient) != n) || len(p.Groups) != len(p.GroupCond) {
-		panic("exchange: lengths of the problem's slices differ")
+		return nil, errors.New("exchange: the problem's slices have different lengths")
 	}
 	group := make([]int, n)
 	for k := range group {

@@ -58,7 +58,7 @@ type pair struct {
 func Smooth(in Counts) (*Result, error) {
 	n := len(in.Area)
 	if len(in.Rays) != n || len(in.Hits) != n || (in.Ambient != nil && len(in.Ambient) != n) {
-		panic("smooth: lengths of Area, Rays, Hits and Ambient differ")
+		return nil, errors.New("smooth: Area, Rays, Hits and Ambient have different lengths")
 	}
 	amb := func(i int) float64 {
 		if in.Ambient == nil {
