@@ -24,32 +24,15 @@ func BenchmarkBuild(b *testing.B) {
 	}
 }
 
-// BenchmarkIntersect measures single-thread throughput of the engine's rays,
-// generation included.
-func BenchmarkIntersect(b *testing.B) {
-	for _, w := range workloads {
-		b.Run(w.name, func(b *testing.B) {
-			m, err := w.make()
-			if err != nil {
-				b.Fatal(err)
-			}
-			s := newScene(m, 0)
-			st := sample.NewStream(1, 0, 0)
-			var t tally
-			const batch = 1000
-			b.ReportAllocs()
-			b.ResetTimer()
-			for b.Loop() {
-				s.trace(batch, st, &t)
-				st.Skip(5 * batch)
-			}
-			b.ReportMetric(float64(batch)*float64(b.N)/b.Elapsed().Seconds(), "rays/s")
-		})
-	}
-}
+// BenchmarkIntersect measures single-thread throughput of the engine's rays
+// one at a time, generation included.
+func BenchmarkIntersect(b *testing.B) { benchmarkRays(b, (*scene).trace) }
 
-// BenchmarkIntersectBatch is BenchmarkIntersect with interleaved traversal.
-func BenchmarkIntersectBatch(b *testing.B) {
+// BenchmarkIntersectBatch is BenchmarkIntersect with interleaved traversal,
+// as the estimator traces.
+func BenchmarkIntersectBatch(b *testing.B) { benchmarkRays(b, (*scene).traceBatch) }
+
+func benchmarkRays(b *testing.B, trace func(*scene, int, sample.Stream, *tally)) {
 	for _, w := range workloads {
 		b.Run(w.name, func(b *testing.B) {
 			m, err := w.make()
@@ -63,7 +46,7 @@ func BenchmarkIntersectBatch(b *testing.B) {
 			b.ReportAllocs()
 			b.ResetTimer()
 			for b.Loop() {
-				s.traceBatch(batch, st, &t)
+				trace(s, batch, st, &t)
 				st.Skip(5 * batch)
 			}
 			b.ReportMetric(float64(batch)*float64(b.N)/b.Elapsed().Seconds(), "rays/s")

@@ -44,9 +44,32 @@ type tally struct {
 	pair          [][]int // hits by (emitter surface, surface hit)
 }
 
-// traceBatch is trace with IntersectBatch, in batches of 64 rays.
-func (s *scene) traceBatch(n int, st sample.Stream, t *tally) {
-	ns := len(s.m.Surfaces)
+// ray draws the next ray from st: an emitting facet by area, a uniform point
+// on it, a cosine-weighted direction about its normal, the origin moved off
+// its plane.
+func (s *scene) ray(st *sample.Stream) bvh.Query {
+	f := s.pick.Pick(st.Float64())
+	e := &s.emitters[f]
+	b1, b2 := sample.UniformTriangle(st.Float64(), st.Float64())
+	p := e.v0.Add(e.e1.Scale(b1)).Add(e.e2.Scale(b2))
+	x, y, z := sample.CosineHemisphere(st.Float64(), st.Float64())
+	d := geometry.NewFrame(e.n).ToWorld(x, y, z)
+	o := geometry.OffsetOrigin(p, e.v0, e.v0.Add(e.e1), e.v0.Add(e.e2), 1-b1-b2, b1, b2, e.n)
+	return bvh.Query{O: o, D: d, TMax: math.Inf(1), Skip: int32(f)}
+}
+
+// count tallies one ray from facet f that hit h.
+func (t *tally) count(s *scene, f int32, h bvh.Hit) {
+	t.rays++
+	t.fromSurface[s.m.SurfaceOf[f]]++
+	if h.Facet < 0 {
+		t.escaped++
+		return
+	}
+	t.pair[s.m.SurfaceOf[f]][s.m.SurfaceOf[h.Facet]]++
+}
+
+func (t *tally) init(ns int) {
 	if t.pair == nil {
 		t.fromSurface = make([]int, ns)
 		t.pair = make([][]int, ns)
@@ -54,59 +77,30 @@ func (s *scene) traceBatch(n int, st sample.Stream, t *tally) {
 			t.pair[i] = make([]int, ns)
 		}
 	}
+}
+
+// traceBatch is trace with IntersectBatch, in batches of 64 rays.
+func (s *scene) traceBatch(n int, st sample.Stream, t *tally) {
+	t.init(len(s.m.Surfaces))
 	var b bvh.Batch
 	var qs [64]bvh.Query
 	var hits [64]bvh.Hit
 	for done := 0; done < n; done += len(qs) {
 		for k := range qs {
-			f := s.pick.Pick(st.Float64())
-			e := &s.emitters[f]
-			b1, b2 := sample.UniformTriangle(st.Float64(), st.Float64())
-			p := e.v0.Add(e.e1.Scale(b1)).Add(e.e2.Scale(b2))
-			x, y, z := sample.CosineHemisphere(st.Float64(), st.Float64())
-			d := geometry.NewFrame(e.n).ToWorld(x, y, z)
-			o := geometry.OffsetOrigin(p, e.v0, e.v0.Add(e.e1), e.v0.Add(e.e2), 1-b1-b2, b1, b2, e.n)
-			qs[k] = bvh.Query{O: o, D: d, TMax: math.Inf(1), Skip: int32(f)}
+			qs[k] = s.ray(&st)
 		}
 		s.tree.IntersectBatch(&b, qs[:], hits[:])
 		for k, h := range hits {
-			f := qs[k].Skip
-			t.rays++
-			t.fromSurface[s.m.SurfaceOf[f]]++
-			if h.Facet < 0 {
-				t.escaped++
-				continue
-			}
-			t.pair[s.m.SurfaceOf[f]][s.m.SurfaceOf[h.Facet]]++
+			t.count(s, qs[k].Skip, h)
 		}
 	}
 }
 
 // trace fires n rays with stream st and tallies their first hits.
 func (s *scene) trace(n int, st sample.Stream, t *tally) {
-	ns := len(s.m.Surfaces)
-	if t.pair == nil {
-		t.fromSurface = make([]int, ns)
-		t.pair = make([][]int, ns)
-		for i := range t.pair {
-			t.pair[i] = make([]int, ns)
-		}
-	}
+	t.init(len(s.m.Surfaces))
 	for range n {
-		f := s.pick.Pick(st.Float64())
-		e := &s.emitters[f]
-		b1, b2 := sample.UniformTriangle(st.Float64(), st.Float64())
-		p := e.v0.Add(e.e1.Scale(b1)).Add(e.e2.Scale(b2))
-		x, y, z := sample.CosineHemisphere(st.Float64(), st.Float64())
-		d := geometry.NewFrame(e.n).ToWorld(x, y, z)
-		o := geometry.OffsetOrigin(p, e.v0, e.v0.Add(e.e1), e.v0.Add(e.e2), 1-b1-b2, b1, b2, e.n)
-		h := s.tree.Intersect(o, d, math.Inf(1), int32(f))
-		t.rays++
-		t.fromSurface[s.m.SurfaceOf[f]]++
-		if h.Facet < 0 {
-			t.escaped++
-			continue
-		}
-		t.pair[s.m.SurfaceOf[f]][s.m.SurfaceOf[h.Facet]]++
+		q := s.ray(&st)
+		t.count(s, q.Skip, s.tree.Intersect(q.O, q.D, q.TMax, q.Skip))
 	}
 }

@@ -37,13 +37,7 @@ func WriteVTP(w io.Writer, m *Mesh, cells []CellArray, comment string) error {
 	fmt.Fprintln(bw, `        <DataArray type="Float64" NumberOfComponents="3" format="ascii">`)
 	var buf []byte
 	for _, v := range m.Vertices {
-		buf = strconv.AppendFloat(buf[:0], v.X, 'g', -1, 64)
-		buf = append(buf, ' ')
-		buf = strconv.AppendFloat(buf, v.Y, 'g', -1, 64)
-		buf = append(buf, ' ')
-		buf = strconv.AppendFloat(buf, v.Z, 'g', -1, 64)
-		buf = append(buf, '\n')
-		bw.Write(buf)
+		bw.Write(appendVec(buf[:0], v))
 	}
 	fmt.Fprintln(bw, `        </DataArray>`)
 	fmt.Fprintln(bw, `      </Points>`)

@@ -7,6 +7,8 @@ import (
 	"strconv"
 
 	"github.com/hschendel/stl"
+
+	"github.com/hemiray/hemiray/geometry"
 )
 
 // WriteSTL writes m as one binary STL solid named name. Surfaces are not
@@ -39,14 +41,7 @@ func WriteOBJ(w io.Writer, m *Mesh) error {
 	fmt.Fprintf(bw, "# %d vertices, %d facets, %d surfaces; units: m\n", len(m.Vertices), len(m.Facets), len(m.Surfaces))
 	var buf []byte
 	for _, v := range m.Vertices {
-		buf = append(buf[:0], "v "...)
-		buf = strconv.AppendFloat(buf, v.X, 'g', -1, 64)
-		buf = append(buf, ' ')
-		buf = strconv.AppendFloat(buf, v.Y, 'g', -1, 64)
-		buf = append(buf, ' ')
-		buf = strconv.AppendFloat(buf, v.Z, 'g', -1, 64)
-		buf = append(buf, '\n')
-		bw.Write(buf)
+		bw.Write(appendVec(append(buf[:0], "v "...), v))
 	}
 	for _, s := range m.Surfaces {
 		fmt.Fprintf(bw, "g %s\n", s.Name)
@@ -56,4 +51,14 @@ func WriteOBJ(w io.Writer, m *Mesh) error {
 		}
 	}
 	return bw.Flush()
+}
+
+// appendVec appends "x y z\n" with the shortest exact text of each value.
+func appendVec(buf []byte, v geometry.Vec3) []byte {
+	buf = strconv.AppendFloat(buf, v.X, 'g', -1, 64)
+	buf = append(buf, ' ')
+	buf = strconv.AppendFloat(buf, v.Y, 'g', -1, 64)
+	buf = append(buf, ' ')
+	buf = strconv.AppendFloat(buf, v.Z, 'g', -1, 64)
+	return append(buf, '\n')
 }
