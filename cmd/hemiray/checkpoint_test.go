@@ -203,3 +203,39 @@ func TestTimeLimit(t *testing.T) {
 		t.Errorf("summary after the time limit: complete %v, %d rays", s.Complete, s.RaysTraced)
 	}
 }
+
+// --halfwidth with shards: merge writes plan.json while intervals are too
+// wide; shards rerun with --plan --resume; the end equals a single run.
+func TestShardHalfWidthRounds(t *testing.T) {
+	dir := t.TempDir()
+	stl, _ := filepath.Abs("../../testdata/cabinet_multi.stl")
+	args := []string{"trace", stl, "--rays", "2000", "--halfwidth", "0.006", "--quiet"}
+	single := filepath.Join(dir, "single")
+	if code, _, e := runCLI(append(args, "-o", single)...); code != 0 {
+		t.Fatal(e)
+	}
+	parts := []string{filepath.Join(dir, "p0"), filepath.Join(dir, "p1")}
+	merged := filepath.Join(dir, "m")
+	plan := filepath.Join(merged, "plan.json")
+	for round := 0; ; round++ {
+		for i, p := range parts {
+			a := append(args, "--shard", []string{"0/2", "1/2"}[i], "-o", p)
+			if round > 0 {
+				a = append(a, "--plan", plan, "--resume")
+			}
+			if code, _, e := runCLI(a...); code != 0 {
+				t.Fatalf("round %d shard %d: %s", round, i, e)
+			}
+		}
+		if code, _, e := runCLI("merge", "-o", merged, parts[0], parts[1]); code != 0 {
+			t.Fatalf("merge round %d: %s", round, e)
+		}
+		if _, err := os.Stat(plan); err != nil {
+			break
+		}
+		if round > 8 {
+			t.Fatal("rounds do not end")
+		}
+	}
+	sameOutputs(t, single, merged)
+}
