@@ -1,6 +1,7 @@
 package exchange
 
 import (
+	"fmt"
 	"math"
 	"testing"
 )
@@ -263,5 +264,31 @@ func TestSparseMatchesDense(t *testing.T) {
 	}
 	if sparse.Imbalance > 1e-9 {
 		t.Errorf("sparse imbalance %g", sparse.Imbalance)
+	}
+}
+
+// BenchmarkSolve solves dense (300 nodes) and sparse (20,000 nodes) rings.
+func BenchmarkSolve(b *testing.B) {
+	for _, n := range []int{300, 20000} {
+		p := Problem{Area: make([]float64, n), Emissivity: make([]float64, n), Cond: make([]Condition, n), F: make([][]Entry, n), Ambient: make([]float64, n), AmbientT: 280}
+		for i := range n {
+			p.Area[i], p.Emissivity[i], p.Cond[i] = 1, 0.5, Condition{Adiabatic, 0}
+			if i%10 == 0 {
+				p.Cond[i] = Condition{Temperature, 400}
+			}
+			a, c := (i+n-1)%n, (i+1)%n
+			if a > c {
+				a, c = c, a
+			}
+			p.F[i] = []Entry{{int32(a), 0.3}, {int32(c), 0.3}}
+			p.Ambient[i] = 0.4
+		}
+		b.Run(fmt.Sprint(n), func(b *testing.B) {
+			for b.Loop() {
+				if _, err := Solve(p); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
 	}
 }

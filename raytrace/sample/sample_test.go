@@ -129,3 +129,17 @@ func TestAllocs(t *testing.T) {
 		t.Errorf("%v allocations per sample, want 0", n)
 	}
 }
+
+// BenchmarkRay draws the numbers and warps of one ray.
+func BenchmarkRay(b *testing.B) {
+	s := NewStream(1, 2, 3)
+	a := NewAlias([]float64{1, 2, 3, 4})
+	var sink float64
+	for b.Loop() {
+		k := a.Pick(s.Float64())
+		b1, b2 := UniformTriangle(s.Float64(), s.Float64())
+		x, y, z := CosineHemisphere(s.Float64(), s.Float64())
+		sink += float64(k) + b1 + b2 + x + y + z
+	}
+	_ = sink
+}

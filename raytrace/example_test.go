@@ -1,0 +1,38 @@
+package raytrace_test
+
+import (
+	"context"
+	"fmt"
+
+	"github.com/hemiray/hemiray/geometry"
+	"github.com/hemiray/hemiray/mesh"
+	"github.com/hemiray/hemiray/raytrace"
+)
+
+// Estimate traces the view factor between two opposed unit squares one
+// metre apart; the published value is 0.19982 (Howell's catalogue C-11).
+func ExampleEstimate() {
+	v := func(x, y, z float64) geometry.Vec3 { return geometry.Vec3{X: x, Y: y, Z: z} }
+	m := mesh.Rectangle("bottom", v(0, 0, 0), v(1, 0, 0), v(0, 1, 0), 4, 4)
+	if err := m.Append(mesh.Rectangle("top", v(0, 0, 1), v(0, 1, 0), v(1, 0, 0), 4, 4)); err != nil {
+		fmt.Println(err)
+		return
+	}
+	r, err := raytrace.Estimate(context.Background(), m, raytrace.Options{Rays: 200000, Seed: 1})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	f := r.Factor(r.NodeIndex("bottom"), r.NodeIndex("top"))
+	exact := geometry.FParallelRectangles(1, 1, 1)
+	fmt.Printf("inside the 95%% interval: %v; within 4 standard errors: %v\n",
+		f.Lo <= exact && exact <= f.Hi, abs(f.F-exact) <= 4*f.StdErr)
+	// Output: inside the 95% interval: true; within 4 standard errors: true
+}
+
+func abs(x float64) float64 {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
