@@ -37,6 +37,7 @@ type lane struct {
 	hit                                Hit
 	skip, cur, q                       int32
 	sp                                 int
+	anyHit                             bool // stop at the first hit (Occluded)
 	stack                              [stackSize]stackEntry
 }
 
@@ -95,7 +96,7 @@ func (t *Tree) startLane(l *lane, q *Query) bool {
 	l.fx, l.fy, l.fz = r.ix*farScale, r.iy*farScale, r.iz*farScale
 	l.nx, l.ny, l.nz, l.mx, l.my, l.mz = r.nx, r.ny, r.nz, r.fx, r.fy, r.fz
 	l.sh = geometry.NewShear(q.O, q.D)
-	l.hit, l.skip, l.cur, l.sp = Miss, q.Skip, 0, 0
+	l.hit, l.skip, l.cur, l.sp, l.anyHit = Miss, q.Skip, 0, 0, false
 	return true
 }
 
@@ -197,6 +198,9 @@ func (t *Tree) step(l *lane) bool {
 			if ok {
 				l.tMax, l.tMaxKey = th, orderKey(th)
 				l.hit = Hit{T: th, B1: b1, B2: b2, Facet: tri.id, Front: front}
+				if l.anyHit {
+					return true
+				}
 			}
 		}
 	}

@@ -98,134 +98,29 @@ type stackEntry struct {
 
 // Intersect returns the closest hit of the ray from o along d with
 // 0 < t < tMax, skipping the facet with id skip (the emitter; −1 skips
-// nothing). A miss returns Miss.
+// nothing). A miss returns Miss. It runs the same traversal as
+// IntersectBatch, one lane alone.
 func (t *Tree) Intersect(o, d geometry.Vec3, tMax float64, skip int32) Hit {
-	return t.traverse(o, d, tMax, skip, false)
+	var l lane
+	if !t.startLane(&l, &Query{O: o, D: d, TMax: tMax, Skip: skip}) {
+		return Miss
+	}
+	for !t.step(&l) {
+	}
+	return l.hit
 }
 
 // Occluded reports whether anything but facet skip lies on the ray from o
 // along d with 0 < t < tMax (a visibility query: the first hit ends it).
 func (t *Tree) Occluded(o, d geometry.Vec3, tMax float64, skip int32) bool {
-	return t.traverse(o, d, tMax, skip, true).Facet >= 0
-}
-
-// traverse is the loop of both queries. At an inner node it tests the
-// boxes of both children (one cache line, see Node), descends into the
-// nearer one hit and pushes the other with its entry distance, so that a
-// popped subtree behind the closest hit so far is dropped untouched. The
-// slab test is written out here rather than called: it runs twice per
-// visited node, and the call and its spills cost as much as its arithmetic.
-func (t *Tree) traverse(o, d geometry.Vec3, tMax float64, skip int32, anyHit bool) Hit {
-	hit := Miss
-	if len(t.Nodes) == 0 {
-		return hit
+	var l lane
+	if !t.startLane(&l, &Query{O: o, D: d, TMax: tMax, Skip: skip}) {
+		return false
 	}
-	r := newRayBox(o, d)
-	tMaxKey := orderKey(tMax)
-	if _, ok := r.slab(&t.Nodes[0], tMaxKey); !ok {
-		return hit
+	l.anyHit = true
+	for !t.step(&l) {
 	}
-	sh := geometry.NewShear(o, d)
-	nodes, tris := t.Nodes, t.tris
-	ox, oy, oz, ix, iy, iz := r.ox, r.oy, r.oz, r.ix, r.iy, r.iz
-	fx, fy, fz := ix*farScale, iy*farScale, iz*farScale
-	nx, ny, nz, mx, my, mz := r.nx, r.ny, r.nz, r.fx, r.fy, r.fz
-	var stack [stackSize]stackEntry
-	sp := 0
-	cur := int32(0)
-	for {
-		n := &nodes[cur]
-		if n.Count == 0 {
-			// Both children, near and far planes per axis; see rayBox.
-			lb, rb := &nodes[n.Offset].Bounds, &nodes[n.Offset+1].Bounds
-			l0 := int64(math.Float64bits((float64(lb[nx]) - ox) * ix))
-			r0 := int64(math.Float64bits((float64(rb[nx]) - ox) * ix))
-			l1 := int64(math.Float64bits((float64(lb[mx])-ox)*fx + 0))
-			r1 := int64(math.Float64bits((float64(rb[mx])-ox)*fx + 0))
-			if v := int64(math.Float64bits((float64(lb[ny]) - oy) * iy)); v > l0 {
-				l0 = v
-			}
-			if v := int64(math.Float64bits((float64(rb[ny]) - oy) * iy)); v > r0 {
-				r0 = v
-			}
-			if v := int64(math.Float64bits((float64(lb[my])-oy)*fy + 0)); v < l1 {
-				l1 = v
-			}
-			if v := int64(math.Float64bits((float64(rb[my])-oy)*fy + 0)); v < r1 {
-				r1 = v
-			}
-			if v := int64(math.Float64bits((float64(lb[nz]) - oz) * iz)); v > l0 {
-				l0 = v
-			}
-			if v := int64(math.Float64bits((float64(rb[nz]) - oz) * iz)); v > r0 {
-				r0 = v
-			}
-			if v := int64(math.Float64bits((float64(lb[mz])-oz)*fz + 0)); v < l1 {
-				l1 = v
-			}
-			if v := int64(math.Float64bits((float64(rb[mz])-oz)*fz + 0)); v < r1 {
-				r1 = v
-			}
-			if l0 < 0 {
-				l0 = 0
-			}
-			if r0 < 0 {
-				r0 = 0
-			}
-			if tMaxKey < l1 {
-				l1 = tMaxKey
-			}
-			if tMaxKey < r1 {
-				r1 = tMaxKey
-			}
-			hl, hr := l0 <= l1, r0 <= r1
-			switch {
-			case hl && hr:
-				near, far, tFar := n.Offset, n.Offset+1, r0
-				if r0 < l0 {
-					near, far, tFar = far, near, l0
-				}
-				stack[sp] = stackEntry{far, tFar}
-				sp++
-				cur = near
-				continue
-			case hl:
-				cur = n.Offset
-				continue
-			case hr:
-				cur = n.Offset + 1
-				continue
-			}
-		} else {
-			end := n.Offset + int32(n.Count)
-			for i := n.Offset; i < end; i++ {
-				tri := &tris[i]
-				if tri.id == skip {
-					continue
-				}
-				a, b, c := tri.vertex(0), tri.vertex(1), tri.vertex(2)
-				th, b1, b2, front, ok := sh.Triangle(&a, &b, &c, tMax)
-				if ok {
-					tMax, tMaxKey = th, orderKey(th)
-					hit = Hit{T: th, B1: b1, B2: b2, Facet: tri.id, Front: front}
-					if anyHit {
-						return hit
-					}
-				}
-			}
-		}
-		// Pop the next subtree that can still hold a closer hit.
-		for {
-			if sp == 0 {
-				return hit
-			}
-			sp--
-			if stack[sp].t <= tMaxKey {
-				cur = stack[sp].node
-				break
-			}
-		}
-	}
+	return l.hit.Facet >= 0
 }
 
 // farScale widens exit distances; it carries one rounding more than
