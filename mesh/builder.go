@@ -82,12 +82,13 @@ func (b *builder) finish() *Mesh {
 }
 
 // welder gives one index to every distinct position: STL stores each
-// facet's corners separately, and shared corners must become shared vertices
-// for edges to be shared. An open-addressing table keyed by the coordinate
-// bits beats a Go map several times on million-facet files.
+// facet's corners separately, and shared corners must become shared
+// vertices for edges to be shared. An open-addressing table keyed by the
+// coordinate bits beats a Go map several times on million-facet files, and
+// its key array becomes the vertex array, so no copy is made.
 type welder struct {
 	slots []int32 // index into keys, -1 when empty
-	keys  [][3]uint64
+	keys  []geometry.Vec3
 	mask  uint32
 }
 
@@ -96,37 +97,45 @@ func newWelder(expected int) *welder {
 	for n < 2*expected {
 		n *= 2
 	}
-	w := &welder{slots: make([]int32, n), mask: uint32(n - 1), keys: make([][3]uint64, 0, expected)}
+	w := &welder{slots: make([]int32, n), mask: uint32(n - 1), keys: make([]geometry.Vec3, 0, expected)}
 	for i := range w.slots {
 		w.slots[i] = -1
 	}
 	return w
 }
 
-func hashKey(k [3]uint64) uint32 {
-	h := k[0]*0x9E3779B97F4A7C15 ^ (k[1]*0xC2B2AE3D27D4EB4F + k[1]>>31) ^ k[2]*0x165667B19E3779F9
+func hashKey(p geometry.Vec3) uint32 {
+	x, y, z := math.Float64bits(p.X), math.Float64bits(p.Y), math.Float64bits(p.Z)
+	h := x*0x9E3779B97F4A7C15 ^ (y*0xC2B2AE3D27D4EB4F + y>>31) ^ z*0x165667B19E3779F9
 	h ^= h >> 29
 	h *= 0xBF58476D1CE4E5B9
 	return uint32(h >> 32)
 }
 
-// id returns the index of the position with coordinate bits k, adding it if new.
+// same compares positions bit for bit (NaN equal to itself, so a NaN
+// corner welds and is reported once by the reader).
+func same(a, b geometry.Vec3) bool {
+	return math.Float64bits(a.X) == math.Float64bits(b.X) &&
+		math.Float64bits(a.Y) == math.Float64bits(b.Y) &&
+		math.Float64bits(a.Z) == math.Float64bits(b.Z)
+}
+
+// id returns the index of position (x, y, z), adding it if new.
 func (w *welder) id(x, y, z float64) int32 {
-	// -0 and +0 are the same position.
-	x, y, z = x+0, y+0, z+0
-	k := [3]uint64{math.Float64bits(x), math.Float64bits(y), math.Float64bits(z)}
-	for s := hashKey(k) & w.mask; ; s = (s + 1) & w.mask {
+	// −0 and +0 are the same position.
+	p := geometry.Vec3{X: x + 0, Y: y + 0, Z: z + 0}
+	for s := hashKey(p) & w.mask; ; s = (s + 1) & w.mask {
 		i := w.slots[s]
 		if i < 0 {
 			i = int32(len(w.keys))
-			w.keys = append(w.keys, k)
+			w.keys = append(w.keys, p)
 			w.slots[s] = i
 			if 2*len(w.keys) > len(w.slots) {
 				w.grow()
 			}
 			return i
 		}
-		if w.keys[i] == k {
+		if same(w.keys[i], p) {
 			return i
 		}
 	}
@@ -148,14 +157,14 @@ func (w *welder) grow() {
 	}
 }
 
-// vertices returns the welded positions scaled to metres.
+// vertices returns the welded positions scaled to metres, in place; the
+// welder is spent afterwards.
 func (w *welder) vertices(scale float64) []geometry.Vec3 {
-	v := make([]geometry.Vec3, len(w.keys))
-	for i, k := range w.keys {
-		v[i] = geometry.Vec3{
-			X: math.Float64frombits(k[0]) * scale,
-			Y: math.Float64frombits(k[1]) * scale,
-			Z: math.Float64frombits(k[2]) * scale,
+	v := w.keys
+	w.keys, w.slots = nil, nil
+	if scale != 1 {
+		for i := range v {
+			v[i] = v[i].Scale(scale)
 		}
 	}
 	return v

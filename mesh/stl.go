@@ -118,7 +118,8 @@ func readBinarySTL(r io.ReadSeeker, name string, header []byte, count int, unit 
 	b.m.Origin = make([]Origin, 0, count)
 	b.use(surfaceName(binaryHeaderName(header), name))
 	b.m.Surfaces[0].Facets = make([]int32, 0, count)
-	sink := &stlSink{b: b, w: newWelder(count / 2)}
+	// A closed triangle mesh has about half as many vertices as facets.
+	sink := &stlSink{b: b, w: newWelder(count/2 + count/32 + 16)}
 	if err := stl.CopyAll(r, sink); err != nil {
 		return nil, &ParseError{Path: name, Facet: sink.n + 1, Err: err}
 	}
