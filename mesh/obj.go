@@ -49,6 +49,10 @@ func ReadOBJ(r io.Reader, name string, opts OBJOptions) (*Mesh, error) {
 	return p.b.finish(), nil
 }
 
+// maxPolygon bounds the corners of one OBJ face: ear clipping takes time
+// quadratic in the corners (cubic for pathological outlines).
+const maxPolygon = 10000
+
 type objParser struct {
 	name  string
 	scale float64
@@ -195,6 +199,9 @@ func (p *objParser) face(rest []byte) error {
 	}
 	if len(p.poly) < 3 {
 		return p.errorf("face has %d distinct corners, want at least 3", len(p.poly))
+	}
+	if len(p.poly) > maxPolygon {
+		return p.errorf("face has %d corners; hemiray triangulates polygons of up to %d (export triangles or smaller polygons)", len(p.poly), maxPolygon)
 	}
 	if len(p.poly) == 3 {
 		p.b.add(p.poly[0], p.poly[1], p.poly[2], p.line)

@@ -3,6 +3,7 @@ package mesh
 import (
 	"bytes"
 	"errors"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -227,6 +228,7 @@ func TestBadInput(t *testing.T) {
 		{"obj no faces", "nf.obj", []byte("v 0 0 0\n"), "no faces"},
 		{"obj two-corner face", "tc.obj", []byte("v 0 0 0\nv 1 0 0\nf 1 2\n"), "tc.obj:3: face has 2 distinct corners"},
 		{"unknown extension", "x.ply", []byte("ply\n"), "unknown mesh format"},
+		{"huge polygon", "h.obj", hugePolygon(), "h.obj:10002: face has 10001 corners"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -274,4 +276,19 @@ func TestUnits(t *testing.T) {
 	if math.IsNaN(Foot.Metres()) {
 		t.Fatal("unreachable")
 	}
+}
+
+// hugePolygon is an OBJ face with more corners than hemiray triangulates.
+func hugePolygon() []byte {
+	var b strings.Builder
+	for i := range 10001 {
+		a := 2 * math.Pi * float64(i) / 10001
+		fmt.Fprintf(&b, "v %g %g 0\n", math.Cos(a), math.Sin(a))
+	}
+	b.WriteString("f")
+	for i := range 10001 {
+		fmt.Fprintf(&b, " %d", i+1)
+	}
+	b.WriteString("\n")
+	return []byte(b.String())
 }
