@@ -5,8 +5,9 @@ import (
 	"sort"
 )
 
-// assemble builds the smoothed rows from λ and measures the change.
-func assemble(in Counts, lam []float64, iters int) *Result {
+// assemble builds the smoothed rows from λ and measures the change. tr is
+// the transpose of the counts (see transpose).
+func assemble(in Counts, tr [][]Entry, lam []float64, iters int) *Result {
 	n := len(in.Area)
 	res := &Result{F: make([][]Factor, n), Ambient: make([]float64, n), MovedAmbient: make([]float64, n), Iterations: iters}
 	raw := func(i int, k int64) float64 { return float64(k) / float64(in.Rays[i]) }
@@ -23,70 +24,44 @@ func assemble(in Counts, lam []float64, iters int) *Result {
 		}
 		return (newF - rawF) / s
 	}
-	// Raw counts by (i, j) for the diagnostics.
-	rawK := make([]map[int32]int64, n)
-	cols := make([]map[int32]bool, n)
+	// Largest raw and smoothed exchange areas, to scale reciprocity errors.
+	maxRaw, maxNew := 0.0, 0.0
 	for i := range n {
-		rawK[i] = map[int32]int64{}
-		cols[i] = map[int32]bool{}
 		for _, e := range in.Hits[i] {
-			rawK[i][e.J] += e.K
+			maxRaw = math.Max(maxRaw, in.Area[i]*raw(i, e.K))
 		}
 	}
 	for i := range n {
-		for j := range rawK[i] {
-			cols[i][j] = true
-			cols[j][int32(i)] = true
-		}
-	}
-	// Reciprocity and summation before.
-	maxS := 0.0
-	for i := range n {
-		for _, k := range rawK[i] {
-			maxS = math.Max(maxS, in.Area[i]*raw(i, k))
-		}
-	}
-	for i := range n {
-		sum := 0.0
+		rawSum, newSum := 0.0, 0.0
 		if in.Ambient != nil {
-			sum += raw(i, in.Ambient[i])
+			rawSum += raw(i, in.Ambient[i])
 		}
-		for j, k := range rawK[i] {
-			sum += raw(i, k)
-			back := raw(int(j), rawK[j][int32(i)])
-			res.ReciprocityBefore = math.Max(res.ReciprocityBefore, math.Abs(in.Area[i]*raw(i, k)-in.Area[j]*back)/maxS)
-		}
-		res.SummationBefore = math.Max(res.SummationBefore, math.Abs(1-sum))
-	}
-	// Smoothed rows: s_ij = c_ij/(λ_i+λ_j), s_ii = k_ii/λ_i, F = s/A.
-	maxS = 0
-	for i := range n {
-		var js []int32
-		for j := range cols[i] {
-			js = append(js, j)
-		}
-		sort.Slice(js, func(a, b int) bool { return js[a] < js[b] })
-		sum := 0.0
-		for _, j := range js {
+		// Columns are the union of row i and column i: smoothing shares each
+		// pair's counts between both directions.
+		mergeRows(in.Hits[i], tr[i], func(j int32, kij, kji int64) {
 			var s float64
 			if int(j) == i {
-				s = float64(rawK[i][j]) / lam[i]
+				s = float64(kij) / lam[i]
 			} else {
-				s = float64(rawK[i][j]+rawK[j][int32(i)]) / (lam[i] + lam[j])
+				s = float64(kij+kji) / (lam[i] + lam[j])
 			}
 			f := s / in.Area[i]
-			maxS = math.Max(maxS, s)
-			m := moved(i, raw(i, rawK[i][j]), f)
+			maxNew = math.Max(maxNew, s)
+			m := moved(i, raw(i, kij), f)
 			res.MaxMoved = math.Max(res.MaxMoved, math.Abs(m))
 			res.F[i] = append(res.F[i], Factor{J: j, F: f, Moved: m})
-			sum += f
-		}
+			rawSum += raw(i, kij)
+			newSum += f
+			back := raw(int(j), kji)
+			res.ReciprocityBefore = math.Max(res.ReciprocityBefore, math.Abs(in.Area[i]*raw(i, kij)-in.Area[j]*back)/maxRaw)
+		})
 		if in.Ambient != nil && in.Ambient[i] > 0 {
 			res.Ambient[i] = float64(in.Ambient[i]) / lam[i] / in.Area[i]
 			res.MovedAmbient[i] = moved(i, raw(i, in.Ambient[i]), res.Ambient[i])
 			res.MaxMoved = math.Max(res.MaxMoved, math.Abs(res.MovedAmbient[i]))
 		}
-		res.SummationAfter = math.Max(res.SummationAfter, math.Abs(1-sum-res.Ambient[i]))
+		res.SummationBefore = math.Max(res.SummationBefore, math.Abs(1-rawSum))
+		res.SummationAfter = math.Max(res.SummationAfter, math.Abs(1-newSum-res.Ambient[i]))
 	}
 	for i := range n {
 		for _, e := range res.F[i] {
@@ -95,7 +70,7 @@ func assemble(in Counts, lam []float64, iters int) *Result {
 			if k := sort.Search(len(row), func(k int) bool { return row[k].J >= int32(i) }); k < len(row) && int(row[k].J) == i {
 				back = row[k].F
 			}
-			res.ReciprocityAfter = math.Max(res.ReciprocityAfter, math.Abs(in.Area[i]*e.F-in.Area[e.J]*back)/maxS)
+			res.ReciprocityAfter = math.Max(res.ReciprocityAfter, math.Abs(in.Area[i]*e.F-in.Area[e.J]*back)/maxNew)
 		}
 	}
 	return res

@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"sort"
 )
 
 // Entry is a count k in column J of a row.
@@ -78,37 +77,35 @@ func Smooth(in Counts) (*Result, error) {
 			return nil, fmt.Errorf("smooth: node %d has no ray that reached a node or the ambient", i)
 		}
 	}
-	// Pool the counts of each unordered pair; self counts go to the diagonal.
-	pooled := map[[2]int32]float64{}
 	for i := range n {
-		for _, e := range in.Hits[i] {
-			a, b := int32(i), e.J
-			if a > b {
-				a, b = b, a
+		for k := 1; k < len(in.Hits[i]); k++ {
+			if in.Hits[i][k].J <= in.Hits[i][k-1].J {
+				return nil, fmt.Errorf("smooth: the columns of row %d are not increasing", i)
 			}
-			pooled[[2]int32{a, b}] += float64(e.K)
+		}
+		for _, e := range in.Hits[i] {
+			if e.J < 0 || int(e.J) >= n || e.K < 0 {
+				return nil, fmt.Errorf("smooth: row %d has an entry %+v out of range", i, e)
+			}
 		}
 	}
+	// Pool the counts of each unordered pair, walking every row with its
+	// transpose: pairs come out in (i, j) order, so every floating-point sum,
+	// and so the result, is the same bit for bit from run to run.
+	tr := transpose(in.Hits)
 	var offd []pair
 	diagC := make([]float64, n) // k_ii + k_i,amb
-	for k, c := range pooled {
-		if k[0] == k[1] {
-			diagC[k[0]] += c
-		} else {
-			offd = append(offd, pair{k[0], k[1], c})
-		}
-	}
 	for i := range n {
-		diagC[i] += amb(i)
+		diagC[i] = amb(i)
+		mergeRows(in.Hits[i], tr[i], func(j int32, kij, kji int64) {
+			switch {
+			case int(j) == i:
+				diagC[i] += float64(kij)
+			case int(j) > i:
+				offd = append(offd, pair{int32(i), j, float64(kij + kji)})
+			}
+		})
 	}
-	// A fixed order of the pairs makes every floating-point sum, and so the
-	// result, the same bit for bit from run to run (map order is random).
-	sort.Slice(offd, func(a, b int) bool {
-		if offd[a].i != offd[b].i {
-			return offd[a].i < offd[b].i
-		}
-		return offd[a].j < offd[b].j
-	})
 	lam := make([]float64, n)
 	for i := range n {
 		lam[i] = float64(in.Rays[i]) / in.Area[i]
@@ -117,7 +114,39 @@ func Smooth(in Counts) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	return assemble(in, lam, iters), nil
+	return assemble(in, tr, lam, iters), nil
+}
+
+// transpose returns the rows of the transposed count matrix (columns
+// increasing, as the rows were built in order).
+func transpose(rows [][]Entry) [][]Entry {
+	t := make([][]Entry, len(rows))
+	for i, row := range rows {
+		for _, e := range row {
+			t[e.J] = append(t[e.J], Entry{int32(i), e.K})
+		}
+	}
+	return t
+}
+
+// mergeRows calls fn for every column present in row a or b (both sorted),
+// with the counts of each (0 where absent), columns increasing.
+func mergeRows(a, b []Entry, fn func(j int32, ka, kb int64)) {
+	x, y := 0, 0
+	for x < len(a) || y < len(b) {
+		switch {
+		case y == len(b) || (x < len(a) && a[x].J < b[y].J):
+			fn(a[x].J, a[x].K, 0)
+			x++
+		case x == len(a) || b[y].J < a[x].J:
+			fn(b[y].J, 0, b[y].K)
+			y++
+		default:
+			fn(a[x].J, a[x].K, b[y].K)
+			x++
+			y++
+		}
+	}
 }
 
 // dual returns D(λ), or +Inf outside λ > 0.
