@@ -6,6 +6,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"sort"
 	"strconv"
 	"strings"
 
@@ -65,6 +66,16 @@ func readTallies(dir string, nodes []raytrace.Node, surfaces []string) (pooled r
 		surfIdx[s] = int32(i)
 	}
 	pooled = raytrace.NewTally(len(nodes))
+	// Entries are gathered per row and sorted once at the end: adding them
+	// one by one to sorted rows would be quadratic in the row length.
+	type entry struct {
+		col int32
+		n   int64
+	}
+	type rows struct{ hits, back [][]entry }
+	newRows := func() rows { return rows{make([][]entry, len(nodes)), make([][]entry, len(nodes))} }
+	pooledRows := newRows()
+	var repRows []rows
 	cr := csv.NewReader(f)
 	cr.FieldsPerRecord = 4
 	line := 0
@@ -83,7 +94,7 @@ func readTallies(dir string, nodes []raytrace.Node, surfaces []string) (pooled r
 		bad := func(format string, a ...any) error {
 			return fmt.Errorf("%s:%d: %s", path, line, fmt.Sprintf(format, a...))
 		}
-		t := &pooled
+		t, rs := &pooled, &pooledRows
 		if rec[0] != "all" {
 			r, err := strconv.Atoi(rec[0])
 			if err != nil || r < 0 || r > 10000 {
@@ -91,8 +102,9 @@ func readTallies(dir string, nodes []raytrace.Node, surfaces []string) (pooled r
 			}
 			for len(reps) <= r {
 				reps = append(reps, raytrace.NewTally(len(nodes)))
+				repRows = append(repRows, newRows())
 			}
-			t = &reps[r]
+			t, rs = &reps[r], &repRows[r]
 		}
 		i, ok := nodeIdx[rec[1]]
 		if !ok {
@@ -112,14 +124,35 @@ func readTallies(dir string, nodes []raytrace.Node, surfaces []string) (pooled r
 			if !ok {
 				return pooled, nil, bad("surface %q", to)
 			}
-			t.Back[i] = t.Back[i].Add(raytrace.Row{Col: []int32{s}, Count: []int64{n}})
+			rs.back[i] = append(rs.back[i], entry{s, n})
 		default:
 			j, ok := nodeIdx[to]
 			if !ok {
 				return pooled, nil, bad("node %q", to)
 			}
-			t.Hits[i] = t.Hits[i].Add(raytrace.Row{Col: []int32{j}, Count: []int64{n}})
+			rs.hits[i] = append(rs.hits[i], entry{j, n})
 		}
+	}
+	toRow := func(es []entry) raytrace.Row {
+		sort.Slice(es, func(a, b int) bool { return es[a].col < es[b].col })
+		var r raytrace.Row
+		for _, e := range es {
+			if k := len(r.Col); k > 0 && r.Col[k-1] == e.col {
+				r.Count[k-1] += e.n
+				continue
+			}
+			r.Col, r.Count = append(r.Col, e.col), append(r.Count, e.n)
+		}
+		return r
+	}
+	fill := func(t *raytrace.Tally, rs *rows) {
+		for i := range nodes {
+			t.Hits[i], t.Back[i] = toRow(rs.hits[i]), toRow(rs.back[i])
+		}
+	}
+	fill(&pooled, &pooledRows)
+	for r := range reps {
+		fill(&reps[r], &repRows[r])
 	}
 	return pooled, reps, nil
 }
