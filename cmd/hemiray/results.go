@@ -122,8 +122,12 @@ func printAnalysis(w io.Writer, res *raytrace.Result, a *analysis) {
 	for _, q := range a.sol.Q {
 		sum += q
 	}
-	fmt.Fprintf(w, "\nnet heat leaving all nodes %.6g W; absorbed by the ambient (%.2f K) %.6g W; imbalance %.1e of the largest flow\n",
-		sum, a.ambientT, a.sol.ToAmbient, a.sol.Imbalance)
+	if res.HasAmbient() {
+		fmt.Fprintf(w, "\nnet heat leaving all nodes %.6g W; absorbed by the ambient (%.2f K) %.6g W; imbalance %.1e of the largest flow\n",
+			sum, a.ambientT, a.sol.ToAmbient, a.sol.Imbalance)
+	} else {
+		fmt.Fprintf(w, "\nclosed model (no ray escaped): net heat of all nodes %.3g W, imbalance %.1e of the largest flow\n", sum, a.sol.Imbalance)
+	}
 	if a.Replicates > 0 {
 		fmt.Fprintf(w, "± are %.0f%% t-intervals from %d independent replicates, each smoothed and solved\n", 100*res.Options.Confidence, a.Replicates)
 	}
