@@ -10,6 +10,7 @@ import (
 	"os"
 	"path/filepath"
 	"strconv"
+	"strings"
 )
 
 // writeAtomic writes a file through a temporary file in the same folder and
@@ -78,4 +79,64 @@ func writeJSON(path string, v any) error {
 		_, err := w.Write(b.Bytes())
 		return err
 	})
+}
+
+// lineWriter writes CSV rows of names and numbers without a string per
+// field: the pairs files of facet-level models have millions of rows.
+// Names are quoted once, by the rules of encoding/csv.
+type lineWriter struct {
+	w      io.Writer
+	buf    []byte
+	quoted map[string]string
+}
+
+func newLineWriter(w io.Writer) *lineWriter {
+	return &lineWriter{w: w, quoted: map[string]string{}}
+}
+
+func (l *lineWriter) sep() {
+	if len(l.buf) > 0 && l.buf[len(l.buf)-1] != '\n' {
+		l.buf = append(l.buf, ',')
+	}
+}
+
+// name appends a text field.
+func (l *lineWriter) name(s string) {
+	q, ok := l.quoted[s]
+	if !ok {
+		var b bytes.Buffer
+		cw := csv.NewWriter(&b)
+		cw.Write([]string{s})
+		cw.Flush()
+		q = strings.TrimSuffix(b.String(), "\n")
+		l.quoted[s] = q
+	}
+	l.sep()
+	l.buf = append(l.buf, q...)
+}
+
+// float appends x with the shortest text that reads back exactly.
+func (l *lineWriter) float(x float64) {
+	l.sep()
+	l.buf = strconv.AppendFloat(l.buf, x, 'g', -1, 64)
+}
+
+func (l *lineWriter) int(n int64) {
+	l.sep()
+	l.buf = strconv.AppendInt(l.buf, n, 10)
+}
+
+// end finishes the row, flushing the buffer now and then.
+func (l *lineWriter) end() error {
+	l.buf = append(l.buf, '\n')
+	if len(l.buf) < 1<<16 {
+		return nil
+	}
+	return l.flush()
+}
+
+func (l *lineWriter) flush() error {
+	_, err := l.w.Write(l.buf)
+	l.buf = l.buf[:0]
+	return err
 }

@@ -43,17 +43,32 @@ func writeAnalysis(dir string, res *raytrace.Result, a *analysis) ([]string, err
 		}
 		written = append(written, "viewfactors_smoothed.csv")
 	}
-	err := writeCSV(filepath.Join(dir, "viewfactors_smoothed_pairs.csv"), func(emit func(...string)) error {
-		emit("from", "to", "F_raw", "F_smoothed", "moved_stderr")
+	err := writeAtomic(filepath.Join(dir, "viewfactors_smoothed_pairs.csv"), func(w io.Writer) error {
+		lw := newLineWriter(w)
+		lw.buf = append(lw.buf, "from,to,F_raw,F_smoothed,moved_stderr\n"...)
+		row := func(from, to string, raw, sm, moved float64) error {
+			lw.name(from)
+			lw.name(to)
+			lw.float(raw)
+			lw.float(sm)
+			lw.float(moved)
+			return lw.end()
+		}
+		open := res.HasAmbient()
 		for i, n := range res.Nodes {
+			hits := &res.Hits[i]
 			for _, e := range a.sm.F[i] {
-				emit(n.Name, cols[e.J], num(res.Factor(i, int(e.J)).F), num(e.F), num(e.Moved))
+				if err := row(n.Name, cols[e.J], float64(hits.At(e.J))/float64(res.Rays[i]), e.F, e.Moved); err != nil {
+					return err
+				}
 			}
-			if res.HasAmbient() {
-				emit(n.Name, "ambient", num(res.Factor(i, res.Ambient()).F), num(a.sm.Ambient[i]), num(a.sm.MovedAmbient[i]))
+			if open {
+				if err := row(n.Name, "ambient", res.Factor(i, res.Ambient()).F, a.sm.Ambient[i], a.sm.MovedAmbient[i]); err != nil {
+					return err
+				}
 			}
 		}
-		return nil
+		return lw.flush()
 	})
 	if err != nil {
 		return nil, err

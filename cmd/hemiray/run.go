@@ -2,12 +2,9 @@ package main
 
 import (
 	"context"
-	"encoding/json"
-	"errors"
 	"flag"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 	"strings"
 
@@ -120,14 +117,17 @@ func finishRun(in *input, res *raytrace.Result, st traceState, stdout, stderr io
 	if err != nil {
 		return err
 	}
-	if err := writeTallies(in.outDir, res, names); err != nil {
-		return err
+	if len(res.Nodes) <= squareLimit {
+		if err := writeTallies(in.outDir, res, names); err != nil {
+			return err
+		}
+		written = append(written, tallyFile)
 	}
 	more, err := writeAnalysis(in.outDir, res, a)
 	if err != nil {
 		return err
 	}
-	written = append(append(written, tallyFile, checkpointFile), more...)
+	written = append(append(written, checkpointFile), more...)
 	sum, err := newSummary(in, res, warnings)
 	if err != nil {
 		return err
@@ -160,11 +160,11 @@ func solveCommand() *command {
 		UsageLine: "solve CASE.toml [-o DIR]",
 		Short:     "smooth and solve again from saved tallies (new conditions, no tracing)",
 		Long: `Solve reads the tallies a previous run or trace of the same case left in
-the output folder (tallies.csv), smooths them and solves the exchange with
+the output folder (tallies.bin), smooths them and solves the exchange with
 the case's current emissivities and boundary conditions, writing the files
 of run. Change emissivities, temperatures or heat loads and solve again in
 a second instead of tracing again; a change to the geometry, the nodes or
-the ray settings is refused (the input hash in summary.json differs).`,
+the ray settings is refused, naming what changed.`,
 		Flags: flag.NewFlagSet("solve", flag.ContinueOnError),
 	}
 	var tf traceFlags
@@ -181,43 +181,33 @@ the ray settings is refused (the input hash in summary.json differs).`,
 		if err != nil {
 			return err
 		}
-		if err := checkSameInput(in); err != nil {
-			return err
+		ck, old, err := readCheckpoint(in.outDir)
+		if err != nil {
+			return fmt.Errorf("%w (run trace or run first)", err)
+		}
+		if old.Shards > 1 {
+			return fmt.Errorf("%s holds shard %d/%d only: merge the shards first", in.outDir, old.Shard, old.Shards)
 		}
 		nodes, err := raytrace.Nodes(in.mesh, in.opts)
 		if err != nil {
 			return err
 		}
-		pooled, reps, err := readTallies(in.outDir, nodes, surfaceNames(in.mesh))
+		// Replicates come with the tallies; anything else that differs means
+		// the tallies belong to another geometry or other ray settings.
+		in.opts.Replicates = old.Options.Replicates
+		meta, err := in.meta(len(nodes))
 		if err != nil {
 			return err
 		}
-		in.opts.Replicates = len(reps)
-		res, err := raytrace.NewResult(nodes, pooled, reps, in.opts)
+		if d := meta.differences(old); len(d) > 0 {
+			return fmt.Errorf("the tallies in %s were traced from other mesh files or ray settings: %s; run the case again", in.outDir, strings.Join(d, "; "))
+		}
+		res, err := raytrace.NewResult(nodes, ck.Tally, ck.Replicas, in.opts)
 		if err != nil {
 			return err
 		}
-		return finishRun(in, res, traceState{complete: true}, stdout, stderr)
+		res.Targets = ck.Targets
+		return finishRun(in, res, traceState{complete: len(ck.Done) > 0}, stdout, stderr)
 	}
 	return c
-}
-
-// checkSameInput refuses tallies traced from another geometry or settings.
-func checkSameInput(in *input) error {
-	b, err := os.ReadFile(filepath.Join(in.outDir, "summary.json"))
-	if err != nil {
-		return fmt.Errorf("%w (run trace or run first)", err)
-	}
-	var s summary
-	if err := json.Unmarshal(b, &s); err != nil {
-		return fmt.Errorf("%s: %w", filepath.Join(in.outDir, "summary.json"), err)
-	}
-	h, err := in.hash()
-	if err != nil {
-		return err
-	}
-	if s.InputHash != h {
-		return errors.New("the tallies in " + in.outDir + " were traced from other mesh files or ray settings (input hash differs); run the case again")
-	}
-	return nil
 }

@@ -115,7 +115,7 @@ temperature = 300
 	}
 	// A changed ray setting is refused.
 	os.WriteFile(filepath.Join(dir, "spheres.toml"), []byte(strings.Replace(caseText, "seed = 11", "seed = 12", 1)), 0o644)
-	if code, _, errOut := runCLI("solve", filepath.Join(dir, "spheres.toml"), "-o", filepath.Join(dir, "out")); code != 1 || !strings.Contains(errOut, "input hash differs") {
+	if code, _, errOut := runCLI("solve", filepath.Join(dir, "spheres.toml"), "-o", filepath.Join(dir, "out")); code != 1 || !strings.Contains(errOut, "seed changed from 11 to 12") {
 		t.Errorf("solve after a seed change: exit %d, %s", code, errOut)
 	}
 }

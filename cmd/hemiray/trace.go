@@ -306,13 +306,16 @@ func finishTrace(in *input, res *raytrace.Result, st traceState, stdout, stderr 
 	if err != nil {
 		return err
 	}
-	if err := writeTallies(in.outDir, res, names); err != nil {
-		return err
+	if len(res.Nodes) <= squareLimit {
+		if err := writeTallies(in.outDir, res, names); err != nil {
+			return err
+		}
+		written = append(written, tallyFile)
 	}
 	if err := writeJSON(filepath.Join(in.outDir, "summary.json"), sum); err != nil {
 		return err
 	}
-	written = append(written, tallyFile, checkpointFile, "summary.json")
+	written = append(written, checkpointFile, "summary.json")
 	printNodes(stdout, res)
 	if res.TraceSeconds > 0 {
 		fmt.Fprintf(stdout, "\n%d rays in %.2f s (%.3g Mrays/s on %d threads); BVH built in %.2f s\n",
@@ -393,14 +396,28 @@ func writeViewFactors(dir string, res *raytrace.Result) ([]string, error) {
 			written = append(written, f.name)
 		}
 	}
-	err := writeCSV(filepath.Join(dir, "viewfactors_pairs.csv"), func(emit func(...string)) error {
-		emit("from", "to", "F", "stderr", "halfwidth", "hits", "rays")
+	err := writeAtomic(filepath.Join(dir, "viewfactors_pairs.csv"), func(w io.Writer) error {
+		lw := newLineWriter(w)
+		lw.buf = append(lw.buf, "from,to,F,stderr,halfwidth,hits,rays\n"...)
+		var werr error
 		for i, n := range res.Nodes {
 			res.Row(i, func(j int, f raytrace.Factor) {
-				emit(n.Name, cols[j], num(f.F), num(f.StdErr), num(f.HalfWidth), fmt.Sprint(f.Hits), fmt.Sprint(f.Rays))
+				lw.name(n.Name)
+				lw.name(cols[j])
+				lw.float(f.F)
+				lw.float(f.StdErr)
+				lw.float(f.HalfWidth)
+				lw.int(f.Hits)
+				lw.int(f.Rays)
+				if err := lw.end(); err != nil && werr == nil {
+					werr = err
+				}
 			})
 		}
-		return nil
+		if werr != nil {
+			return werr
+		}
+		return lw.flush()
 	})
 	if err != nil {
 		return nil, err

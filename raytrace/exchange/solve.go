@@ -230,33 +230,39 @@ type csr struct {
 }
 
 func toCSR(s *system) *csr {
-	idx := make([]int, len(s.rows))
-	for i := range idx {
-		idx[i] = i
-	}
-	sort.Slice(idx, func(a, b int) bool {
-		ia, ib := idx[a], idx[b]
-		if s.rows[ia] != s.rows[ib] {
-			return s.rows[ia] < s.rows[ib]
-		}
-		return s.cols[ia] < s.cols[ib]
-	})
+	// Counting sort of the triplets by row, then each row by column, with
+	// duplicates summed.
 	c := &csr{n: s.n, start: make([]int, s.n+1), diag: make([]float64, s.n)}
-	last := [2]int{-1, -1}
-	for _, k := range idx {
-		r, cl := s.rows[k], s.cols[k]
-		if last == [2]int{r, cl} {
-			c.val[len(c.val)-1] += s.vals[k]
-		} else {
-			c.col = append(c.col, cl)
-			c.val = append(c.val, s.vals[k])
-			c.start[r+1]++
-			last = [2]int{r, cl}
-		}
+	for _, r := range s.rows {
+		c.start[r+1]++
 	}
 	for r := range s.n {
 		c.start[r+1] += c.start[r]
 	}
+	col := make([]int, len(s.rows))
+	val := make([]float64, len(s.rows))
+	next := append([]int(nil), c.start[:s.n]...)
+	for k, r := range s.rows {
+		col[next[r]], val[next[r]] = s.cols[k], s.vals[k]
+		next[r]++
+	}
+	out := 0
+	for r := range s.n {
+		lo, hi := c.start[r], c.start[r+1]
+		seg := rowSegment{col[lo:hi], val[lo:hi]}
+		sort.Sort(seg)
+		c.start[r] = out
+		for k := lo; k < hi; k++ {
+			if out > c.start[r] && col[out-1] == col[k] {
+				val[out-1] += val[k]
+				continue
+			}
+			col[out], val[out] = col[k], val[k]
+			out++
+		}
+	}
+	c.start[s.n] = out
+	c.col, c.val = col[:out], val[:out]
 	for r := range s.n {
 		for k := c.start[r]; k < c.start[r+1]; k++ {
 			if c.col[k] == r {
@@ -265,6 +271,19 @@ func toCSR(s *system) *csr {
 		}
 	}
 	return c
+}
+
+// rowSegment sorts one row's columns and values together.
+type rowSegment struct {
+	col []int
+	val []float64
+}
+
+func (r rowSegment) Len() int           { return len(r.col) }
+func (r rowSegment) Less(a, b int) bool { return r.col[a] < r.col[b] }
+func (r rowSegment) Swap(a, b int) {
+	r.col[a], r.col[b] = r.col[b], r.col[a]
+	r.val[a], r.val[b] = r.val[b], r.val[a]
 }
 
 func (c *csr) at(r, cl int) float64 {

@@ -38,6 +38,7 @@ func assemble(in Counts, tr [][]Entry, lam []float64, iters int) *Result {
 		}
 		// Columns are the union of row i and column i: smoothing shares each
 		// pair's counts between both directions.
+		res.F[i] = make([]Factor, 0, len(in.Hits[i])+len(tr[i]))
 		mergeRows(in.Hits[i], tr[i], func(j int32, kij, kji int64) {
 			var s float64
 			if int(j) == i {

@@ -121,6 +121,15 @@ func Smooth(in Counts) (*Result, error) {
 // increasing, as the rows were built in order).
 func transpose(rows [][]Entry) [][]Entry {
 	t := make([][]Entry, len(rows))
+	count := make([]int, len(rows))
+	for _, row := range rows {
+		for _, e := range row {
+			count[e.J]++
+		}
+	}
+	for j := range t {
+		t[j] = make([]Entry, 0, count[j])
+	}
 	for i, row := range rows {
 		for _, e := range row {
 			t[e.J] = append(t[e.J], Entry{int32(i), e.K})
