@@ -131,22 +131,11 @@ func Estimate(ctx context.Context, m *mesh.Mesh, opts Options) (*Result, error) 
 	if len(m.Facets) == 0 {
 		return nil, errors.New("the model has no facets")
 	}
-	two := map[string]bool{}
-	for _, s := range opts.TwoSided {
-		two[s] = true
-	}
 	em, area := emitters(m)
-	nm, err := buildNodes(m, two, opts.FacetNodes, area)
+	nm, err := nodeMapFor(m, opts, area)
 	if err != nil {
 		return nil, err
 	}
-	// Report the areas of the mesh as given; the rounded ones (within 1e-7)
-	// only weight the choice of emitting facet.
-	nodes, err := Nodes(m, opts)
-	if err != nil {
-		return nil, err
-	}
-	nm.nodes = nodes
 	if opts.FacetNodes && opts.MemoryLimit > 0 {
 		if need := plannedBytes(len(m.Facets), len(nm.nodes), opts); need > opts.MemoryLimit {
 			return nil, fmt.Errorf("facet mode with %d nodes needs about %.1f GiB for its tallies and tree, more than the %.1f GiB available; use fewer rays, surface nodes, or a machine with more memory",

@@ -172,11 +172,22 @@ func (r *Result) NodeIndex(name string) int {
 // Nodes returns the radiation nodes Estimate would use for m with opts,
 // without tracing (to read saved tallies back).
 func Nodes(m *mesh.Mesh, opts Options) ([]Node, error) {
+	_, area := emitters(m)
+	nm, err := nodeMapFor(m, opts, area)
+	if err != nil {
+		return nil, err
+	}
+	return nm.nodes, nil
+}
+
+// nodeMapFor builds the nodes and reports each node's area as the mesh
+// gives it; the rounded areas (within 1e-7) only weight the choice of
+// emitting facet.
+func nodeMapFor(m *mesh.Mesh, opts Options, area []float64) (*nodeMap, error) {
 	two := map[string]bool{}
 	for _, s := range opts.TwoSided {
 		two[s] = true
 	}
-	_, area := emitters(m)
 	nm, err := buildNodes(m, two, opts.FacetNodes, area)
 	if err != nil {
 		return nil, err
@@ -187,7 +198,7 @@ func Nodes(m *mesh.Mesh, opts Options) ([]Node, error) {
 			nm.nodes[i].Area += m.FacetArea(int(f))
 		}
 	}
-	return nm.nodes, nil
+	return nm, nil
 }
 
 // NewResult wraps saved tallies as a Result (no timings).
