@@ -125,32 +125,35 @@ func (t *Tree) step(l *lane) bool {
 	if n.Count == 0 {
 		lb, rb := &t.Nodes[n.Offset].Bounds, &t.Nodes[n.Offset+1].Bounds
 		ox, oy, oz := l.ox, l.oy, l.oz
-		l0 := int64(math.Float64bits((float64(lb[l.nx]) - ox) * l.ix))
-		r0 := int64(math.Float64bits((float64(rb[l.nx]) - ox) * l.ix))
-		l1 := int64(math.Float64bits((float64(lb[l.mx])-ox)*l.fx + 0))
-		r1 := int64(math.Float64bits((float64(rb[l.mx])-ox)*l.fx + 0))
-		if v := int64(math.Float64bits((float64(lb[l.ny]) - oy) * l.iy)); v > l0 {
+		ix, iy, iz, fx, fy, fz := l.ix, l.iy, l.iz, l.fx, l.fy, l.fz
+		nx, ny, nz, mx, my, mz := l.nx, l.ny, l.nz, l.mx, l.my, l.mz
+		tMaxKey := l.tMaxKey
+		l0 := int64(math.Float64bits((float64(lb[nx]) - ox) * ix))
+		r0 := int64(math.Float64bits((float64(rb[nx]) - ox) * ix))
+		l1 := int64(math.Float64bits((float64(lb[mx])-ox)*fx + 0))
+		r1 := int64(math.Float64bits((float64(rb[mx])-ox)*fx + 0))
+		if v := int64(math.Float64bits((float64(lb[ny]) - oy) * iy)); v > l0 {
 			l0 = v
 		}
-		if v := int64(math.Float64bits((float64(rb[l.ny]) - oy) * l.iy)); v > r0 {
+		if v := int64(math.Float64bits((float64(rb[ny]) - oy) * iy)); v > r0 {
 			r0 = v
 		}
-		if v := int64(math.Float64bits((float64(lb[l.my])-oy)*l.fy + 0)); v < l1 {
+		if v := int64(math.Float64bits((float64(lb[my])-oy)*fy + 0)); v < l1 {
 			l1 = v
 		}
-		if v := int64(math.Float64bits((float64(rb[l.my])-oy)*l.fy + 0)); v < r1 {
+		if v := int64(math.Float64bits((float64(rb[my])-oy)*fy + 0)); v < r1 {
 			r1 = v
 		}
-		if v := int64(math.Float64bits((float64(lb[l.nz]) - oz) * l.iz)); v > l0 {
+		if v := int64(math.Float64bits((float64(lb[nz]) - oz) * iz)); v > l0 {
 			l0 = v
 		}
-		if v := int64(math.Float64bits((float64(rb[l.nz]) - oz) * l.iz)); v > r0 {
+		if v := int64(math.Float64bits((float64(rb[nz]) - oz) * iz)); v > r0 {
 			r0 = v
 		}
-		if v := int64(math.Float64bits((float64(lb[l.mz])-oz)*l.fz + 0)); v < l1 {
+		if v := int64(math.Float64bits((float64(lb[mz])-oz)*fz + 0)); v < l1 {
 			l1 = v
 		}
-		if v := int64(math.Float64bits((float64(rb[l.mz])-oz)*l.fz + 0)); v < r1 {
+		if v := int64(math.Float64bits((float64(rb[mz])-oz)*fz + 0)); v < r1 {
 			r1 = v
 		}
 		if l0 < 0 {
@@ -159,11 +162,11 @@ func (t *Tree) step(l *lane) bool {
 		if r0 < 0 {
 			r0 = 0
 		}
-		if l.tMaxKey < l1 {
-			l1 = l.tMaxKey
+		if tMaxKey < l1 {
+			l1 = tMaxKey
 		}
-		if l.tMaxKey < r1 {
-			r1 = l.tMaxKey
+		if tMaxKey < r1 {
+			r1 = tMaxKey
 		}
 		hl, hr := l0 <= l1, r0 <= r1
 		switch {
