@@ -98,60 +98,14 @@ func preflight(in *input) error {
 	return nil
 }
 
-// finishRun writes everything and prints the heat balance.
+// finishRun smooths and solves, then writes everything and prints the
+// heat balance.
 func finishRun(in *input, res *raytrace.Result, st traceState, stdout, stderr io.Writer) error {
-	names := surfaceNames(in.mesh)
-	warnings := res.Warnings(names)
-	if st.timeLimit {
-		warnings = append(warnings, "the time limit stopped the trace early: the intervals are wider than planned (summary.json: complete = false)")
-	}
 	a, err := analyse(in.lc, res)
 	if err != nil {
 		return err
 	}
-	warnings = append(warnings, a.notes...)
-	for _, w := range warnings {
-		fmt.Fprintf(stderr, "hemiray: warning: %s\n", w)
-	}
-	written, err := writeViewFactors(in.outDir, res)
-	if err != nil {
-		return err
-	}
-	if len(res.Nodes) <= squareLimit {
-		if err := writeTallies(in.outDir, res, names); err != nil {
-			return err
-		}
-		written = append(written, tallyFile)
-	}
-	more, err := writeAnalysis(in.outDir, res, a)
-	if err != nil {
-		return err
-	}
-	written = append(append(written, checkpointFile), more...)
-	sum, err := newSummary(in, res, warnings)
-	if err != nil {
-		return err
-	}
-	sum.Extra = analysisSummary(a)
-	sum.Complete = st.complete
-	if err := writeJSON(filepath.Join(in.outDir, "summary.json"), sum); err != nil {
-		return err
-	}
-	written = append(written, "summary.json")
-	if in.pictures {
-		pics, err := writePictures(in.outDir, in, res, a)
-		if err != nil {
-			return err
-		}
-		written = append(written, pics...)
-	}
-	printAnalysis(stdout, res, a)
-	if res.TraceSeconds > 0 {
-		fmt.Fprintf(stdout, "%d rays in %.2f s (%.3g Mrays/s on %d threads)\n", res.RaysTraced(), res.TraceSeconds, float64(res.RaysTraced())/res.TraceSeconds/1e6, res.Threads)
-	}
-	fmt.Fprintf(stdout, "wrote %s: %s\n", in.outDir, strings.Join(written, ", "))
-	fmt.Fprintln(stdout, "caution: these are estimates for engineering judgement; the applicable codes and licensed professional practice govern.")
-	return nil
+	return finish(in, res, st, a, stdout, stderr)
 }
 
 func solveCommand() *command {

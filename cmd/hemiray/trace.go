@@ -289,19 +289,23 @@ func finishShard(in *input, res *raytrace.Result, stdout io.Writer) error {
 
 // finishTrace writes the view-factor files and prints a summary.
 func finishTrace(in *input, res *raytrace.Result, st traceState, stdout, stderr io.Writer) error {
+	return finish(in, res, st, nil, stdout, stderr)
+}
+
+// finish writes the outputs of a trace — and, with an analysis a, those of
+// run — and prints what was done. trace, run, solve, merge and demo end here.
+func finish(in *input, res *raytrace.Result, st traceState, a *analysis, stdout, stderr io.Writer) error {
 	names := surfaceNames(in.mesh)
 	warnings := res.Warnings(names)
 	if st.timeLimit {
 		warnings = append(warnings, "the time limit stopped the trace early: the intervals are wider than planned (summary.json: complete = false)")
 	}
+	if a != nil {
+		warnings = append(warnings, a.notes...)
+	}
 	for _, w := range warnings {
 		fmt.Fprintf(stderr, "hemiray: warning: %s\n", w)
 	}
-	sum, err := newSummary(in, res, warnings)
-	if err != nil {
-		return err
-	}
-	sum.Complete = st.complete
 	written, err := writeViewFactors(in.outDir, res)
 	if err != nil {
 		return err
@@ -312,18 +316,48 @@ func finishTrace(in *input, res *raytrace.Result, st traceState, stdout, stderr 
 		}
 		written = append(written, tallyFile)
 	}
+	written = append(written, checkpointFile)
+	if a != nil {
+		more, err := writeAnalysis(in.outDir, res, a)
+		if err != nil {
+			return err
+		}
+		written = append(written, more...)
+	}
+	sum, err := newSummary(in, res, warnings)
+	if err != nil {
+		return err
+	}
+	sum.Complete = st.complete
+	if a != nil {
+		sum.Extra = analysisSummary(a)
+	}
 	if err := writeJSON(filepath.Join(in.outDir, "summary.json"), sum); err != nil {
 		return err
 	}
-	written = append(written, checkpointFile, "summary.json")
-	printNodes(stdout, res)
+	written = append(written, "summary.json")
+	if a != nil && in.pictures {
+		pics, err := writePictures(in.outDir, in, res, a)
+		if err != nil {
+			return err
+		}
+		written = append(written, pics...)
+	}
+	if a != nil {
+		printAnalysis(stdout, res, a)
+	} else {
+		printNodes(stdout, res)
+	}
 	if res.TraceSeconds > 0 {
 		fmt.Fprintf(stdout, "\n%d rays in %.2f s (%.3g Mrays/s on %d threads); BVH built in %.2f s\n",
 			res.RaysTraced(), res.TraceSeconds, float64(res.RaysTraced())/res.TraceSeconds/1e6, res.Threads, res.BuildSeconds)
 	} else {
-		fmt.Fprintf(stdout, "\n%d rays, merged from saved tallies\n", res.RaysTraced())
+		fmt.Fprintf(stdout, "\n%d rays, from saved tallies\n", res.RaysTraced())
 	}
 	fmt.Fprintf(stdout, "wrote %s: %s\n", in.outDir, strings.Join(written, ", "))
+	if a != nil {
+		fmt.Fprintln(stdout, "caution: these are estimates for engineering judgement; the applicable codes and licensed professional practice govern.")
+	}
 	return nil
 }
 
