@@ -12,14 +12,16 @@ type earClipper struct {
 	x, y []float64 // projected corners
 	idx  []int     // remaining corners, positions in the polygon
 	out  [][3]int32
+	work int // point-in-ear tests left before giving up (see triangulate)
 }
 
 // triangulate splits polygon poly (vertex indices into v) into len(poly)−2
 // triangles. The polygon is projected onto the plane of its Newell normal
 // (Newell's method: the best-fit plane of a possibly non-planar polygon), and
 // ears are clipped from the projected outline. A polygon with no ear (a
-// self-intersecting outline or a collinear one) is finished as a fan, so no
-// area is lost silently; the mesh checks then report any degenerate facets.
+// self-intersecting outline or a collinear one), or one that exhausts a
+// quadratic work budget, is finished as a fan, so no area is lost silently;
+// the mesh checks then report any degenerate facets.
 func (c *earClipper) triangulate(v []geometry.Vec3, poly []int32) [][3]int32 {
 	n := len(poly)
 	var nrm geometry.Vec3
@@ -54,6 +56,9 @@ func (c *earClipper) triangulate(v []geometry.Vec3, poly []int32) [][3]int32 {
 		c.y = append(c.y, v[p].Axis(ay))
 		c.idx = append(c.idx, i)
 	}
+	// Ear clipping is quadratic for ordinary outlines but cubic for
+	// pathological ones; past a quadratic budget the rest becomes a fan.
+	c.work = 64*n*n + 1024
 	for len(c.idx) > 3 {
 		ear := c.findEar()
 		if ear < 0 {
@@ -87,6 +92,9 @@ func (c *earClipper) findEar() int {
 		for _, q := range c.idx {
 			if q == a || q == b || q == d {
 				continue
+			}
+			if c.work--; c.work < 0 {
+				return -1
 			}
 			// Inside or on the boundary of the candidate ear.
 			if c.cross(a, b, q) >= 0 && c.cross(b, d, q) >= 0 && c.cross(d, a, q) >= 0 {
