@@ -19,6 +19,10 @@ func TestNodeSize(t *testing.T) {
 	if s := unsafe.Sizeof(leafTri{}); s != 40 {
 		t.Errorf("leafTri is %d bytes, want 40", s)
 	}
+	// fetchNode (assembly) reads these fields at fixed offsets.
+	if o, c := unsafe.Offsetof(Node{}.Offset), unsafe.Offsetof(Node{}.Count); o != 24 || c != 28 {
+		t.Errorf("Node.Offset at %d, Count at %d; fetchNode assumes 24 and 28", o, c)
+	}
 }
 
 // randomSoup returns n random triangles of size about s in the unit cube,

@@ -1,7 +1,8 @@
 package bvh
 
-// prefetch asks the processor to start loading the cache line at addr
-// without waiting for it.
+// fetchNode asks the processor to start loading what visiting n will read
+// (its child pair, or its triangles) without waiting for it; see the
+// assembly for the layout it assumes.
 //
 //go:noescape
-func prefetch(addr uintptr)
+func fetchNode(n *Node, nodes *Node, tris *leafTri)

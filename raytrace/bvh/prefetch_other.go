@@ -2,5 +2,5 @@
 
 package bvh
 
-// prefetch is a no-op where no prefetch instruction is wired in.
-func prefetch(addr uintptr) {}
+// fetchNode is a no-op where no prefetch instruction is wired in.
+func fetchNode(n *Node, nodes *Node, tris *leafTri) {}

@@ -30,7 +30,7 @@ type Batch struct {
 
 type lane struct {
 	ox, oy, oz, ix, iy, iz, fx, fy, fz float64
-	nx, ny, nz, mx, my, mz             int
+	nx, ny, nz, mx, my, mz             uintptr // byte offsets of the slab planes in a Node
 	sh                                 geometry.Shear
 	tMax                               float64
 	tMaxKey                            int64
@@ -82,6 +82,14 @@ func (t *Tree) IntersectBatch(b *Batch, qs []Query, hits []Hit) {
 	}
 }
 
+// never is the order key of a child box the ray misses.
+const never = math.MaxInt64
+
+// bound returns the float32 at byte offset off of a node, widened.
+func bound(node unsafe.Pointer, off uintptr) float64 {
+	return float64(*(*float32)(unsafe.Add(node, off)))
+}
+
 // startLane loads a query into a lane; false if the ray misses the root.
 func (t *Tree) startLane(l *lane, q *Query) bool {
 	if len(t.Nodes) == 0 {
@@ -94,68 +102,64 @@ func (t *Tree) startLane(l *lane, q *Query) bool {
 	}
 	l.ox, l.oy, l.oz, l.ix, l.iy, l.iz = r.ox, r.oy, r.oz, r.ix, r.iy, r.iz
 	l.fx, l.fy, l.fz = r.ix*farScale, r.iy*farScale, r.iz*farScale
-	l.nx, l.ny, l.nz, l.mx, l.my, l.mz = r.nx, r.ny, r.nz, r.fx, r.fy, r.fz
+	l.nx, l.ny, l.nz, l.mx, l.my, l.mz = 4*uintptr(r.nx), 4*uintptr(r.ny), 4*uintptr(r.nz), 4*uintptr(r.fx), 4*uintptr(r.fy), 4*uintptr(r.fz)
 	l.sh = geometry.NewShear(q.O, q.D)
 	l.hit, l.skip, l.cur, l.sp, l.anyHit = Miss, q.Skip, 0, 0, false
 	return true
 }
 
 // fetchAhead starts loading what visiting node i will read: the pair of
-// its children, or its first triangle.
+// its children, or its triangles (their first and last cache line; leaves
+// seldom span more than two).
 func (t *Tree) fetchAhead(i int32) {
-	n := &t.Nodes[i]
-	if n.Count == 0 {
-		prefetch(uintptr(unsafe.Pointer(&t.Nodes[n.Offset])))
-	} else {
-		// A leaf's triangles are contiguous: fetch up to its first three lines.
-		p := uintptr(unsafe.Pointer(&t.tris[n.Offset]))
-		prefetch(p)
-		if n.Count > 1 {
-			prefetch(p + 64)
-		}
-		if n.Count > 3 {
-			prefetch(p + 128)
-		}
-	}
+	fetchNode(&t.Nodes[i], unsafe.SliceData(t.Nodes), unsafe.SliceData(t.tris))
 }
 
 // step visits one node of the lane's traversal; true when the ray is done.
+//
+// The child test is written for throughput on incoherent rays: the bounds
+// are read at byte offsets fixed per ray (no index checks), and which child
+// comes first, whether the other is pushed and which memory to fetch next
+// are chosen with conditional moves rather than jumps that would mispredict
+// about half the time.
 func (t *Tree) step(l *lane) bool {
 	n := &t.Nodes[l.cur]
 	if n.Count == 0 {
-		lb, rb := &t.Nodes[n.Offset].Bounds, &t.Nodes[n.Offset+1].Bounds
+		pair := unsafe.Pointer(unsafe.SliceData(t.Nodes))
+		pair = unsafe.Add(pair, uintptr(n.Offset)*unsafe.Sizeof(Node{}))
+		lb, rb := pair, unsafe.Add(pair, unsafe.Sizeof(Node{}))
 		ox, oy, oz := l.ox, l.oy, l.oz
 		ix, iy, iz, fx, fy, fz := l.ix, l.iy, l.iz, l.fx, l.fy, l.fz
 		nx, ny, nz, mx, my, mz := l.nx, l.ny, l.nz, l.mx, l.my, l.mz
+		l0 := int64(math.Float64bits((bound(lb, nx) - ox) * ix))
+		r0 := int64(math.Float64bits((bound(rb, nx) - ox) * ix))
+		l1 := int64(math.Float64bits((bound(lb, mx)-ox)*fx + 0))
+		r1 := int64(math.Float64bits((bound(rb, mx)-ox)*fx + 0))
+		if v := int64(math.Float64bits((bound(lb, ny) - oy) * iy)); v > l0 {
+			l0 = v
+		}
+		if v := int64(math.Float64bits((bound(rb, ny) - oy) * iy)); v > r0 {
+			r0 = v
+		}
+		if v := int64(math.Float64bits((bound(lb, my)-oy)*fy + 0)); v < l1 {
+			l1 = v
+		}
+		if v := int64(math.Float64bits((bound(rb, my)-oy)*fy + 0)); v < r1 {
+			r1 = v
+		}
+		if v := int64(math.Float64bits((bound(lb, nz) - oz) * iz)); v > l0 {
+			l0 = v
+		}
+		if v := int64(math.Float64bits((bound(rb, nz) - oz) * iz)); v > r0 {
+			r0 = v
+		}
+		if v := int64(math.Float64bits((bound(lb, mz)-oz)*fz + 0)); v < l1 {
+			l1 = v
+		}
+		if v := int64(math.Float64bits((bound(rb, mz)-oz)*fz + 0)); v < r1 {
+			r1 = v
+		}
 		tMaxKey := l.tMaxKey
-		l0 := int64(math.Float64bits((float64(lb[nx]) - ox) * ix))
-		r0 := int64(math.Float64bits((float64(rb[nx]) - ox) * ix))
-		l1 := int64(math.Float64bits((float64(lb[mx])-ox)*fx + 0))
-		r1 := int64(math.Float64bits((float64(rb[mx])-ox)*fx + 0))
-		if v := int64(math.Float64bits((float64(lb[ny]) - oy) * iy)); v > l0 {
-			l0 = v
-		}
-		if v := int64(math.Float64bits((float64(rb[ny]) - oy) * iy)); v > r0 {
-			r0 = v
-		}
-		if v := int64(math.Float64bits((float64(lb[my])-oy)*fy + 0)); v < l1 {
-			l1 = v
-		}
-		if v := int64(math.Float64bits((float64(rb[my])-oy)*fy + 0)); v < r1 {
-			r1 = v
-		}
-		if v := int64(math.Float64bits((float64(lb[nz]) - oz) * iz)); v > l0 {
-			l0 = v
-		}
-		if v := int64(math.Float64bits((float64(rb[nz]) - oz) * iz)); v > r0 {
-			r0 = v
-		}
-		if v := int64(math.Float64bits((float64(lb[mz])-oz)*fz + 0)); v < l1 {
-			l1 = v
-		}
-		if v := int64(math.Float64bits((float64(rb[mz])-oz)*fz + 0)); v < r1 {
-			r1 = v
-		}
 		if l0 < 0 {
 			l0 = 0
 		}
@@ -168,25 +172,26 @@ func (t *Tree) step(l *lane) bool {
 		if tMaxKey < r1 {
 			r1 = tMaxKey
 		}
-		hl, hr := l0 <= l1, r0 <= r1
-		switch {
-		case hl && hr:
-			near, far, tFar := n.Offset, n.Offset+1, r0
-			if r0 < l0 {
-				near, far, tFar = far, near, l0
+		// A child the ray misses gets entry distance "never", so the
+		// nearer child is the one to visit and the farther is pushed
+		// only if it is met too.
+		if l0 > l1 {
+			l0 = never
+		}
+		if r0 > r1 {
+			r0 = never
+		}
+		near, far, tNear, tFar := n.Offset, n.Offset+1, l0, r0
+		if r0 < l0 {
+			near, far, tNear, tFar = far, near, r0, l0
+		}
+		if tNear != never {
+			l.stack[l.sp&(stackSize-1)] = stackEntry{far, tFar}
+			if tFar != never {
+				l.sp++
 			}
-			l.stack[l.sp] = stackEntry{far, tFar}
-			l.sp++
 			l.cur = near
 			t.fetchAhead(near)
-			return false
-		case hl:
-			l.cur = n.Offset
-			t.fetchAhead(l.cur)
-			return false
-		case hr:
-			l.cur = n.Offset + 1
-			t.fetchAhead(l.cur)
 			return false
 		}
 	} else {
