@@ -39,7 +39,10 @@ func benchmarkRays(b *testing.B, trace func(*scene, int, sample.Stream, *tally))
 			if err != nil {
 				b.Fatal(err)
 			}
-			s := newScene(m, 0)
+			s, err := newScene(m, 0)
+			if err != nil {
+				b.Fatal(err)
+			}
 			st := sample.NewStream(1, 0, 0)
 			var t tally
 			const batch = 1024

@@ -62,7 +62,10 @@ func main() {
 		r.build1 = time.Since(t0)
 		runtime.GC()
 		t0 = time.Now()
-		s := newScene(m, *threads)
+		s, err := newScene(m, *threads)
+		if err != nil {
+			log.Fatalf("%s: %v", w.name, err)
+		}
 		r.buildAll = time.Since(t0)
 		r.bytesPerFacet = float64(meshBytes(m)+s.tree.Bytes()) / float64(len(m.Facets))
 		r.sahCost, r.depth = s.tree.Stats.SAHCost, s.tree.Stats.MaxDepth

@@ -2,8 +2,10 @@ package raytrace
 
 import (
 	"math"
+	"unsafe"
 
 	"github.com/hemiray/hemiray/geometry"
+	"github.com/hemiray/hemiray/internal/prefetch"
 	"github.com/hemiray/hemiray/mesh"
 	"github.com/hemiray/hemiray/raytrace/bvh"
 	"github.com/hemiray/hemiray/raytrace/sample"
@@ -39,13 +41,13 @@ func emitters(m *mesh.Mesh) ([]facetEmitter, []float64) {
 
 // nodeEmitter picks the facets of one node in proportion to their area.
 type nodeEmitter struct {
-	facets []int32
-	pick   sample.Alias // over facets; unused for a single facet
+	facet0 int32        // the node's only facet, when it has one
+	pick   sample.Alias // facet ids by area; empty for a single facet
 	sign   float64      // +1 emits from the front, −1 from the back
 }
 
 func newNodeEmitter(n *Node, area []float64) nodeEmitter {
-	e := nodeEmitter{facets: n.Facets, sign: 1}
+	e := nodeEmitter{facet0: n.Facets[0], sign: 1}
 	if n.Back {
 		e.sign = -1
 	}
@@ -54,26 +56,50 @@ func newNodeEmitter(n *Node, area []float64) nodeEmitter {
 		for k, f := range n.Facets {
 			w[k] = area[f]
 		}
-		e.pick = sample.NewAlias(w)
+		e.pick = sample.NewLabeledAlias(w, n.Facets)
 	}
 	return e
 }
 
-// ray draws the next ray of node e from st: a facet by area, a uniform point
-// on it, a cosine-weighted direction about the emitting side's normal, and
-// the origin moved off the facet's plane to that side.
-func (e *nodeEmitter) ray(st *sample.Stream, em []facetEmitter) bvh.Query {
-	u := st.Float64()
-	f := e.facets[0]
-	if len(e.facets) > 1 {
-		f = e.facets[e.pick.Pick(u)]
+// rays fills qs (at most chunk long) with the node's next len(qs) rays
+// from st: for each, a facet by area, a uniform point on it, a
+// cosine-weighted direction about the emitting side's normal, and the
+// origin moved off the facet's plane to that side. Ray k uses the stream's
+// numbers 5k … 5k+4 whatever the batch length.
+//
+// It works in passes over the batch (draw the numbers and prefetch the
+// alias entries; pick the facets and prefetch their emitter data; build
+// the rays) so that on a model larger than the caches the misses of all
+// rays overlap instead of stalling each ray in turn.
+func (e *nodeEmitter) rays(st *sample.Stream, em []facetEmitter, qs []bvh.Query) {
+	var u [chunk][numbersPerRay]float64
+	qs = qs[:min(len(qs), chunk)]
+	multi := e.pick.Len() > 0
+	for k := range qs {
+		for j := range numbersPerRay {
+			u[k][j] = st.Float64()
+		}
+		if multi {
+			e.pick.Prefetch(u[k][0])
+		}
 	}
-	fe := &em[f]
-	b1, b2 := sample.UniformTriangle(st.Float64(), st.Float64())
-	p := fe.v0.Add(fe.e1.Scale(b1)).Add(fe.e2.Scale(b2))
-	n := fe.n.Scale(e.sign)
-	x, y, z := sample.CosineHemisphere(st.Float64(), st.Float64())
-	d := geometry.NewFrame(n).ToWorld(x, y, z)
-	o := geometry.OffsetOrigin(p, fe.v0, fe.v0.Add(fe.e1), fe.v0.Add(fe.e2), 1-b1-b2, b1, b2, n)
-	return bvh.Query{O: o, D: d, TMax: math.Inf(1), Skip: f}
+	for k := range qs {
+		f := e.facet0
+		if multi {
+			f = e.pick.Pick(u[k][0])
+		}
+		qs[k].Skip = f
+		prefetch.Lines(unsafe.Pointer(&em[f]), unsafe.Pointer(&em[f].n.Z))
+	}
+	for k := range qs {
+		f := qs[k].Skip
+		fe := &em[f]
+		b1, b2 := sample.UniformTriangle(u[k][1], u[k][2])
+		p := fe.v0.Add(fe.e1.Scale(b1)).Add(fe.e2.Scale(b2))
+		n := fe.n.Scale(e.sign)
+		x, y, z := sample.CosineHemisphere(u[k][3], u[k][4])
+		d := geometry.NewFrame(n).ToWorld(x, y, z)
+		o := geometry.OffsetOrigin(p, fe.v0, fe.v0.Add(fe.e1), fe.v0.Add(fe.e2), 1-b1-b2, b1, b2, n)
+		qs[k] = bvh.Query{O: o, D: d, TMax: math.Inf(1), Skip: f}
+	}
 }

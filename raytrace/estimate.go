@@ -392,9 +392,7 @@ func (e *engine) trace(ctx context.Context, u unit, s []*scratch, b *bvh.Batch) 
 			return res, err
 		}
 		n := int(min(chunk, u.Hi-lo))
-		for k := range n {
-			qs[k] = ne.ray(&st, e.em)
-		}
+		ne.rays(&st, e.em, qs[:n])
 		e.tree.IntersectBatch(b, qs[:n], hs[:n])
 		for k := range n {
 			h := &hs[k]
