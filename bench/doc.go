@@ -5,11 +5,13 @@
 //
 // build_s is the single-thread BVH build; bytes_per_facet counts the mesh
 // (vertices, facets, surface tables) and the tree; mrays are millions of the
-// engine's real rays per second (an emitting facet picked in proportion to
-// area with an alias table, a uniform point on it, a cosine-weighted
+// engine's real rays per second, drawn by the estimator's own generator
+// (raytrace.RaySource: an emitting facet picked in proportion to area with
+// an alias table, a uniform point on it, a cosine-weighted
 // direction about its normal, the closest hit), ray generation included,
 // traced in interleaved batches (bvh.Tree.IntersectBatch) as the estimator
-// traces them; the table also shows one ray at a time for comparison.
+// traces them. The table also shows the tree's own bytes per facet and
+// one ray at a time for comparison.
 //
 // Usage:
 //

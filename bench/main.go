@@ -23,6 +23,7 @@ type result struct {
 	facets              int
 	build1, buildAll    time.Duration
 	bytesPerFacet       float64
+	treeBytesPerFacet   float64 // the tree alone: what traversal reads
 	mrays1, mraysAll    float64 // interleaved batches, as the estimator traces
 	mraysSingle         float64 // one ray at a time, for comparison
 	threads             int
@@ -68,6 +69,7 @@ func main() {
 		}
 		r.buildAll = time.Since(t0)
 		r.bytesPerFacet = float64(meshBytes(m)+s.tree.Bytes()) / float64(len(m.Facets))
+		r.treeBytesPerFacet = float64(s.tree.Bytes()) / float64(len(m.Facets))
 		r.sahCost, r.depth = s.tree.Stats.SAHCost, s.tree.Stats.MaxDepth
 
 		// Warm up, then measure one thread and all threads.
@@ -86,10 +88,10 @@ func main() {
 		log.Fatalf("unknown workload %q (squares, box, room, sphere or all)", *which)
 	}
 	tw := tabwriter.NewWriter(os.Stdout, 0, 4, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "workload\tfacets\tbuild 1t [s]\tbuild all [s]\tbytes/facet\tSAH cost\tdepth\tMrays/s 1t\tMrays/s all\tthreads\tefficiency\t1t, one ray at a time\t")
+	fmt.Fprintln(tw, "workload\tfacets\tbuild 1t [s]\tbuild all [s]\tbytes/facet\ttree bytes/facet\tSAH cost\tdepth\tMrays/s 1t\tMrays/s all\tthreads\tefficiency\t1t, one ray at a time\t")
 	for _, r := range results {
-		fmt.Fprintf(tw, "%s\t%d\t%.3f\t%.3f\t%.1f\t%.1f\t%d\t%.3f\t%.3f\t%d\t%.2f\t%.3f\t\n", r.name, r.facets,
-			r.build1.Seconds(), r.buildAll.Seconds(), r.bytesPerFacet, r.sahCost, r.depth, r.mrays1, r.mraysAll, r.threads, r.mraysAll/(r.mrays1*float64(r.threads)), r.mraysSingle)
+		fmt.Fprintf(tw, "%s\t%d\t%.3f\t%.3f\t%.1f\t%.1f\t%.1f\t%d\t%.3f\t%.3f\t%d\t%.2f\t%.3f\t\n", r.name, r.facets,
+			r.build1.Seconds(), r.buildAll.Seconds(), r.bytesPerFacet, r.treeBytesPerFacet, r.sahCost, r.depth, r.mrays1, r.mraysAll, r.threads, r.mraysAll/(r.mrays1*float64(r.threads)), r.mraysSingle)
 	}
 	tw.Flush()
 	for _, r := range results {
