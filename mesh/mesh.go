@@ -117,12 +117,19 @@ func (m *Mesh) Append(o *Mesh) error {
 	for _, s := range o.SurfaceOf {
 		m.SurfaceOf = append(m.SurfaceOf, s+sOff)
 	}
-	for f := range o.Facets {
-		or := Origin{Source: -1}
-		if f < len(o.Origin) && o.Origin[f].Source >= 0 {
-			or = Origin{Source: o.Origin[f].Source + srcOff, Line: o.Origin[f].Line}
+	// Origins stay aligned with facets; meshes that were never read from
+	// a file need none.
+	if len(m.Origin) > 0 || len(o.Origin) > 0 {
+		for len(m.Origin) < int(fOff) {
+			m.Origin = append(m.Origin, Origin{Source: -1})
 		}
-		m.Origin = append(m.Origin, or)
+		for f := range o.Facets {
+			or := Origin{Source: -1}
+			if f < len(o.Origin) && o.Origin[f].Source >= 0 {
+				or = Origin{Source: o.Origin[f].Source + srcOff, Line: o.Origin[f].Line}
+			}
+			m.Origin = append(m.Origin, or)
+		}
 	}
 	for _, s := range o.Surfaces {
 		facets := make([]int32, len(s.Facets))

@@ -194,6 +194,35 @@ func TestLoadSeveralFiles(t *testing.T) {
 	}
 }
 
+// A file's facets keep their file and line when appended to a built shape
+// that has no origins of its own.
+func TestAppendKeepsOrigins(t *testing.T) {
+	file, err := LoadFile("../testdata/duct_bend.obj", LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := Rectangle("plate", geometry.Vec3{}, geometry.Vec3{X: 1}, geometry.Vec3{Y: 1}, 2, 2)
+	if err := m.Append(file); err != nil {
+		t.Fatal(err)
+	}
+	if w := m.Where(0); w != "facet 0 of surface plate" {
+		t.Errorf("built facet: Where = %q", w)
+	}
+	n := len(m.Facets) - len(file.Facets)
+	for f := range file.Facets {
+		if got, want := m.Where(n+f), file.Where(f); got != want {
+			t.Fatalf("appended facet %d: Where = %q, want %q", f, got, want)
+		}
+	}
+	built := Rectangle("a", geometry.Vec3{}, geometry.Vec3{X: 1}, geometry.Vec3{Y: 1}, 2, 2)
+	if err := built.Append(Rectangle("b", geometry.Vec3{Z: 1}, geometry.Vec3{X: 1}, geometry.Vec3{Y: 1}, 2, 2)); err != nil {
+		t.Fatal(err)
+	}
+	if len(built.Origin) != 0 {
+		t.Errorf("two built shapes: %d origins, want none", len(built.Origin))
+	}
+}
+
 func TestBadInput(t *testing.T) {
 	dir := t.TempDir()
 	plate, _ := os.ReadFile("../testdata/heater_plate_binary.stl")
