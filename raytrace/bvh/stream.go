@@ -186,6 +186,8 @@ func (t *Tree) step(l *lane) bool {
 			near, far, tNear, tFar = far, near, r0, l0
 		}
 		if tNear != never {
+			// sp < stackSize always (see the package comment); the mask
+			// only spares an index check. The entry counts if sp moves.
 			l.stack[l.sp&(stackSize-1)] = stackEntry{far, tFar}
 			if tFar != never {
 				l.sp++
