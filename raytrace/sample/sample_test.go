@@ -118,6 +118,26 @@ func TestAlias(t *testing.T) {
 	}
 }
 
+// A labelled table returns the labels with the indices' frequencies.
+func TestLabeledAlias(t *testing.T) {
+	w := []float64{3, 0, 1}
+	labels := []int32{70, 71, 72}
+	a := NewLabeledAlias(w, labels)
+	s := NewStream(9, 0, 0)
+	const n = 400000
+	counts := map[int32]int{}
+	for range n {
+		counts[a.Pick(s.Float64())]++
+	}
+	if len(counts) != 2 || counts[71] != 0 {
+		t.Fatalf("labels drawn: %v, want only 70 and 72", counts)
+	}
+	// p = 3/4: sd = √(p(1−p)/n) ≈ 6.8e-4; allow 5 sd.
+	if f := float64(counts[70]) / n; f < 0.75-0.0035 || f > 0.75+0.0035 {
+		t.Errorf("label 70 drawn with frequency %v, want 0.75", f)
+	}
+}
+
 func TestAllocs(t *testing.T) {
 	s := NewStream(1, 2, 3)
 	a := NewAlias([]float64{1, 2, 3})
