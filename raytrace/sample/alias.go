@@ -34,9 +34,13 @@ func NewAlias(w []float64) Alias {
 }
 
 // NewLabeledAlias is NewAlias with Pick returning labels[i] for index i
-// (facet ids, say), which saves the caller a lookup per pick.
+// (facet ids, say), which saves the caller a lookup per pick. labels must
+// be as long as w.
 func NewLabeledAlias(w []float64, labels []int32) Alias {
 	n := len(w)
+	if len(labels) != n {
+		panic("sample.NewLabeledAlias: labels and weights differ in length")
+	}
 	prob, alias := make([]float64, n), make([]int32, n)
 	total := 0.0
 	for _, x := range w {
