@@ -168,3 +168,19 @@ func coverageError(want, got []UnitID) error {
 	}
 	return fmt.Errorf("%d work units do not belong to this run's plan", len(count))
 }
+
+// Complete reports whether ck holds exactly the work units that its targets
+// plan for shard o.Shard of o.Shards (every unit when o.Shards ≤ 1).
+// Whether a run is complete comes from this plan, never from how it ended.
+func (ck *Checkpoint) Complete(o Options) bool {
+	if o.defaults() != nil {
+		return false
+	}
+	var want []unit
+	for _, u := range planUnits(ck.Targets, &o) {
+		if o.Shards <= 1 || shardOf(u, o.BatchSize, o.Shards) == o.Shard {
+			want = append(want, u)
+		}
+	}
+	return slices.Equal(want, ck.Done)
+}

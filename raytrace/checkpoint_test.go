@@ -12,7 +12,7 @@ import (
 )
 
 func baseOpts() Options {
-	return Options{Rays: 20000, Seed: 21, BatchSize: 4096, Replicates: 3}
+	return Options{Settings: Settings{Rays: 20000, Seed: 21, BatchSize: 4096, Replicates: 3}}
 }
 
 // Shards 1/1 … 7/7 merged give exactly the single run's tallies.
@@ -57,7 +57,7 @@ func TestShardsMergeExactly(t *testing.T) {
 // uninterrupted run's tallies, also across a HalfWidth round.
 func TestResumeAfterCancel(t *testing.T) {
 	m := ReferenceCases()[0].Mesh
-	opts := Options{Rays: 3000, HalfWidth: 0.006, Seed: 8, BatchSize: 512}
+	opts := Options{Settings: Settings{Rays: 3000, HalfWidth: 0.006, Seed: 8, BatchSize: 512}}
 	whole, err := Estimate(context.Background(), m, opts)
 	if err != nil {
 		t.Fatal(err)
@@ -126,7 +126,7 @@ func TestTallyFileRoundTripAndCorruption(t *testing.T) {
 }
 
 func FuzzReadTallyFile(f *testing.F) {
-	r, _ := Estimate(context.Background(), ReferenceCases()[0].Mesh, Options{Rays: 500, BatchSize: 128, Replicates: 2})
+	r, _ := Estimate(context.Background(), ReferenceCases()[0].Mesh, Options{Settings: Settings{Rays: 500, BatchSize: 128, Replicates: 2}})
 	ck := r.Checkpoint()
 	var b bytes.Buffer
 	WriteTallyFile(&b, &ck, []byte("{}"))

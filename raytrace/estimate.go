@@ -19,34 +19,13 @@ import (
 // Options.BatchSize says otherwise.
 const DefaultBatchSize = 1 << 16
 
-// Options control Estimate. The zero value of each field means its default.
+// Options control Estimate: the Settings that fix the tallies, and how this
+// process runs (threads, its share of the work, checkpoints, progress). The
+// zero value of each field means its default.
 type Options struct {
-	// Rays is the number of rays per emitting node (the first round when
-	// HalfWidth is set). Default 100,000.
-	Rays int64
-	// HalfWidth > 0 traces in rounds, doubling the rays of every node some
-	// entry of whose row still has a confidence half-width above it, until
-	// none has or the node reaches MaxRays.
-	HalfWidth float64
-	// MaxRays caps the rays per node of a HalfWidth run. Default 64·Rays.
-	MaxRays int64
-	// Seed selects the random streams.
-	Seed uint64
+	Settings
 	// Threads is the number of workers. Default GOMAXPROCS.
 	Threads int
-	// Confidence is the level of the intervals, in (0, 1). Default 0.95.
-	Confidence float64
-	// FacetNodes makes every facet a node.
-	FacetNodes bool
-	// TwoSided names the surfaces whose back is a node of its own.
-	TwoSided []string
-	// BatchSize is the number of rays per random stream and work unit.
-	// Changing it changes the numbers; it is part of the case. Default 65,536.
-	BatchSize int64
-	// Replicates, when at least 2, also keeps the tallies of that many
-	// independent sub-samples (ray r of a node belongs to replicate r mod
-	// Replicates), for replicate-based intervals on derived results.
-	Replicates int
 	// Shards > 1 makes this run trace only its share of the work units:
 	// those with shardOf(unit) == Shard. Shards add up exactly (Merge).
 	// A sharded run does one round; later HalfWidth rounds are planned from
@@ -80,20 +59,9 @@ type Progress struct {
 }
 
 func (o *Options) defaults() error {
-	if o.Rays == 0 {
-		o.Rays = 100000
-	}
-	if o.MaxRays == 0 {
-		o.MaxRays = 64 * o.Rays
-	}
+	o.Settings = o.Settings.WithDefaults()
 	if o.Threads <= 0 {
 		o.Threads = runtime.GOMAXPROCS(0)
-	}
-	if o.Confidence == 0 {
-		o.Confidence = 0.95
-	}
-	if o.BatchSize == 0 {
-		o.BatchSize = DefaultBatchSize
 	}
 	if o.ProgressEvery == 0 {
 		o.ProgressEvery = time.Second
@@ -104,18 +72,10 @@ func (o *Options) defaults() error {
 	if o.Shards <= 0 {
 		o.Shards = 1
 	}
-	switch {
-	case o.Rays < 0 || o.MaxRays < o.Rays:
-		return fmt.Errorf("rays per node must be positive and at most the maximum (%d, %d)", o.Rays, o.MaxRays)
-	case !(o.Confidence > 0 && o.Confidence < 1):
-		return fmt.Errorf("confidence %v is not in (0, 1)", o.Confidence)
-	case o.HalfWidth < 0 || o.HalfWidth >= 0.5:
-		return fmt.Errorf("half-width %v is not in [0, 0.5)", o.HalfWidth)
-	case o.BatchSize < 64:
-		return fmt.Errorf("batch size %d is below 64", o.BatchSize)
-	case o.Replicates < 0 || o.Replicates == 1:
-		return fmt.Errorf("replicates %d: use 0 (none) or at least 2", o.Replicates)
-	case o.Shard < 0 || o.Shard >= o.Shards:
+	if err := o.Settings.Check(); err != nil {
+		return err
+	}
+	if o.Shard < 0 || o.Shard >= o.Shards {
 		return fmt.Errorf("shard %d/%d: the index must be in [0, %d)", o.Shard, o.Shards, o.Shards)
 	}
 	return nil

@@ -19,7 +19,7 @@ func TestReferenceCases(t *testing.T) {
 	}
 	for _, c := range ReferenceCases() {
 		t.Run(c.Name, func(t *testing.T) {
-			res, err := c.Check(context.Background(), Options{Rays: rays, Seed: 1})
+			res, err := c.Check(context.Background(), Options{Settings: Settings{Rays: rays, Seed: 1}})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -44,7 +44,7 @@ func TestIntervalCoverage(t *testing.T) {
 	const runs = 400
 	covered := 0
 	for seed := range uint64(runs) {
-		r, err := Estimate(context.Background(), m, Options{Rays: 2000, Seed: seed + 1000})
+		r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 2000, Seed: seed + 1000}})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -63,7 +63,7 @@ func TestIntervalCoverage(t *testing.T) {
 // (reciprocity, any radiation textbook).
 func TestClosedEnclosure(t *testing.T) {
 	m := mesh.Box("", geometry.Box{Max: geometry.Vec3{X: 2, Y: 1, Z: 0.5}}, 3, true)
-	r, err := Estimate(context.Background(), m, Options{Rays: 100000, Seed: 3})
+	r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 100000, Seed: 3}})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -91,7 +91,7 @@ func TestDeterminism(t *testing.T) {
 	m := ReferenceCases()[1].Mesh
 	var got []*Result
 	for _, th := range []int{1, 3} {
-		r, err := Estimate(context.Background(), m, Options{Rays: 30000, Seed: 9, Threads: th, BatchSize: 4096})
+		r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 30000, Seed: 9, BatchSize: 4096}, Threads: th})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -111,7 +111,7 @@ func TestBackFaceHits(t *testing.T) {
 		v := &m.Facets[f]
 		v[1], v[2] = v[2], v[1]
 	}
-	r, err := Estimate(context.Background(), m, Options{Rays: 20000, Seed: 4})
+	r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 20000, Seed: 4}})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -145,7 +145,7 @@ func TestTwoSidedAndFacetNodes(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	r, err := Estimate(context.Background(), m, Options{Rays: 50000, Seed: 2, TwoSided: []string{"plate"}})
+	r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 50000, Seed: 2, TwoSided: []string{"plate"}}})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -157,7 +157,7 @@ func TestTwoSidedAndFacetNodes(t *testing.T) {
 		}
 	}
 	// Facet nodes: 12 facets + 4 back sides; rows still sum to 1 with the ambient.
-	r, err = Estimate(context.Background(), m, Options{Rays: 2000, Seed: 2, TwoSided: []string{"plate"}, FacetNodes: true})
+	r, err = Estimate(context.Background(), m, Options{Settings: Settings{Rays: 2000, Seed: 2, TwoSided: []string{"plate"}, FacetNodes: true}})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -173,7 +173,7 @@ func TestTwoSidedAndFacetNodes(t *testing.T) {
 
 func TestHalfWidthRounds(t *testing.T) {
 	m := ReferenceCases()[0].Mesh
-	r, err := Estimate(context.Background(), m, Options{Rays: 1000, HalfWidth: 0.01, Seed: 5})
+	r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 1000, HalfWidth: 0.01, Seed: 5}})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -191,7 +191,7 @@ func TestHalfWidthRounds(t *testing.T) {
 func TestCancel(t *testing.T) {
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
-	_, err := Estimate(ctx, ReferenceCases()[0].Mesh, Options{Rays: 1e6})
+	_, err := Estimate(ctx, ReferenceCases()[0].Mesh, Options{Settings: Settings{Rays: 1e6}})
 	if err == nil {
 		t.Error("cancelled Estimate returned no error")
 	}
@@ -216,7 +216,7 @@ func TestWilson(t *testing.T) {
 
 func TestReplicatesAddUp(t *testing.T) {
 	m := ReferenceCases()[1].Mesh
-	r, err := Estimate(context.Background(), m, Options{Rays: 10001, Seed: 3, Replicates: 4})
+	r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 10001, Seed: 3, Replicates: 4}})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -236,7 +236,7 @@ func TestReplicatesAddUp(t *testing.T) {
 		t.Errorf("replicate rays %d, %d; want 2501, 2500", r.Replicas[0].Rays[0], r.Replicas[3].Rays[0])
 	}
 	// Replicates do not change the pooled numbers.
-	r2, err := Estimate(context.Background(), m, Options{Rays: 10001, Seed: 3})
+	r2, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 10001, Seed: 3}})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -21,7 +21,7 @@ func ExampleEstimate() {
 		fmt.Println(err)
 		return
 	}
-	r, err := raytrace.Estimate(context.Background(), m, raytrace.Options{Rays: 200000, Seed: 1})
+	r, err := raytrace.Estimate(context.Background(), m, raytrace.Options{Settings: raytrace.Settings{Rays: 200000, Seed: 1}})
 	if err != nil {
 		fmt.Println(err)
 		return

@@ -10,6 +10,8 @@ import (
 	"strings"
 	"syscall"
 	"testing"
+
+	"github.com/hemiray/hemiray/raytrace/analysis"
 	"time"
 
 	"github.com/hemiray/hemiray/geometry"
@@ -112,7 +114,7 @@ func TestSigtermWritesCheckpoint(t *testing.T) {
 	if err == nil || !strings.Contains(stderr.String(), "checkpoint written") {
 		t.Fatalf("exit %v, stderr %q", err, stderr.String())
 	}
-	if _, _, err := readCheckpoint(out); err != nil {
+	if _, _, err := analysis.ReadTallies(out); err != nil {
 		t.Fatalf("checkpoint after SIGTERM: %v", err)
 	}
 }
@@ -195,7 +197,10 @@ func TestTimeLimit(t *testing.T) {
 	if code != 0 || !strings.Contains(e, "time limit") {
 		t.Fatalf("exit %d, %q", code, e)
 	}
-	var s summary
+	var s struct {
+		Complete   bool  `json:"complete"`
+		RaysTraced int64 `json:"rays_traced"`
+	}
 	if err := json.Unmarshal(mustRead(t, filepath.Join(out, "summary.json")), &s); err != nil {
 		t.Fatal(err)
 	}

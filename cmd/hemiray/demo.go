@@ -10,6 +10,7 @@ import (
 
 	"github.com/hemiray/hemiray/geometry"
 	"github.com/hemiray/hemiray/mesh"
+	"github.com/hemiray/hemiray/raytrace/report"
 )
 
 // The demo scenario (invented for the demo, not a reference case): a
@@ -113,7 +114,7 @@ func writeDemo(dir string) (string, error) {
 		{"case.toml", func(w io.Writer) error { _, err := io.WriteString(w, demoCase); return err }},
 	}
 	for _, f := range files {
-		if err := writeAtomic(filepath.Join(dir, f.name), f.w); err != nil {
+		if err := report.WriteFile(filepath.Join(dir, f.name), f.w); err != nil {
 			return "", err
 		}
 	}
@@ -152,21 +153,19 @@ DIR/results. The case file is a commented starting point for your own.`,
 			return err
 		}
 		fmt.Fprintf(stdout, "demo scenario written to %s (case.toml, enclosure.obj, board.stl, module.stl)\n\n", *out)
-		in, err := loadInput(flag.NewFlagSet("demo-run", flag.ContinueOnError), &tf, []string{casePath})
-		if err != nil {
-			return err
-		}
-		in.opts.Threads = tf.threads
-		in.opts.Replicates = in.lc.c.Rays.Replicates
-		if err := preflight(in); err != nil {
-			return err
-		}
 		tf.checkpointEvery = time.Minute
-		res, st, err := executeTrace(ctx, in, &tf, stderr)
+		j, err := loadInput(flag.NewFlagSet("demo-run", flag.ContinueOnError), &tf, []string{casePath})
 		if err != nil {
 			return err
 		}
-		return finishRun(in, res, st, stdout, stderr)
+		if err := j.in.Preflight(); err != nil {
+			return err
+		}
+		t, err := j.trace(ctx, stderr)
+		if err != nil {
+			return err
+		}
+		return finishRun(j, t, stdout, stderr)
 	}
 	return c
 }

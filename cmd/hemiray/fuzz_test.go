@@ -15,6 +15,6 @@ func FuzzReadCase(f *testing.F) {
 		dir := t.TempDir()
 		p := filepath.Join(dir, "c.toml")
 		os.WriteFile(p, data, 0o644)
-		readCase(p)
+		openCase(p)
 	})
 }

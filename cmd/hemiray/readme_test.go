@@ -32,15 +32,15 @@ func TestReadmeCaseFile(t *testing.T) {
 	f, _ = os.Create(filepath.Join(dir, "board.stl"))
 	mesh.WriteSTL(f, mesh.Rectangle("board", v(50, 50, 20), v(200, 0, 0), v(0, 150, 0), 2, 2), "board")
 	f.Close()
-	lc, err := readCase(filepath.Join(dir, "case.toml"))
+	in, err := openCase(filepath.Join(dir, "case.toml"))
 	if err != nil {
 		t.Fatalf("the README's case file does not read: %v", err)
 	}
-	h := lc.spec("heater")
-	if *h.Emissivity != 0.9 || *h.Temperature != 600 || !h.twoSided() {
+	h := in.Case.Spec("heater")
+	if *h.Emissivity != 0.9 || *h.Temperature != 600 || !h.IsTwoSided() {
 		t.Errorf("heater settings %+v", h)
 	}
-	if back := lc.spec("heater.back"); *back.Emissivity != 0.3 {
+	if back := in.Case.Spec("heater.back"); *back.Emissivity != 0.3 {
 		t.Errorf("heater.back emissivity %v", *back.Emissivity)
 	}
 	if !strings.Contains(string(b), "hemiray demo") {

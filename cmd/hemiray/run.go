@@ -2,18 +2,16 @@ package main
 
 import (
 	"context"
+	"errors"
 	"flag"
 	"fmt"
 	"io"
 	"path/filepath"
 	"strings"
 
-	"github.com/hemiray/hemiray/raytrace"
+	"github.com/hemiray/hemiray/raytrace/analysis"
+	"github.com/hemiray/hemiray/raytrace/report"
 )
-
-// defaultReplicates is the replicate count for heat-flow intervals when the
-// case does not set rays.replicates.
-const defaultReplicates = 8
 
 func runCommand() *command {
 	c := &command{
@@ -37,7 +35,7 @@ confidence). The README documents the case file.`,
 	}
 	var tf traceFlags
 	tf.register(c.Flags)
-	replicates := c.Flags.Int("replicates", 0, fmt.Sprintf("independent replicates for heat-flow intervals (default: the case's rays.replicates, else %d)", defaultReplicates))
+	replicates := c.Flags.Int("replicates", 0, fmt.Sprintf("independent replicates for heat-flow intervals (default: the case's rays.replicates, else %d)", analysis.DefaultReplicates))
 	c.Run = func(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 		pos, err := parseArgs(c.Flags, args)
 		if err != nil {
@@ -46,66 +44,43 @@ confidence). The README documents the case file.`,
 		if len(pos) != 1 || !strings.EqualFold(filepath.Ext(pos[0]), ".toml") {
 			return usagef("run takes one case file (.toml)")
 		}
-		in, err := loadInput(c.Flags, &tf, pos)
+		j, err := loadInput(c.Flags, &tf, pos)
 		if err != nil {
 			return err
 		}
-		in.opts.Replicates = in.lc.c.Rays.Replicates
+		s := &j.in.Settings
 		if *replicates != 0 {
-			in.opts.Replicates = *replicates
+			s.Replicates = *replicates
 		}
-		if in.opts.Replicates == 0 {
-			in.opts.Replicates = defaultReplicates
+		if s.Replicates == 0 {
+			s.Replicates = analysis.DefaultReplicates
 		}
-		if in.opts.Replicates < 2 {
-			return usagef("--replicates must be at least 2")
+		if s.Replicates < 2 || s.Replicates > 1024 {
+			return usagef("--replicates must be 2 to 1024")
 		}
-		if err := preflight(in); err != nil {
+		if err := j.in.Preflight(); err != nil {
 			return err
 		}
-		res, st, err := executeTrace(ctx, in, &tf, stderr)
+		t, err := j.trace(ctx, stderr)
 		if err != nil {
 			return err
 		}
-		if in.opts.Shards > 1 {
-			return finishShard(in, res, stdout)
+		if j.run.Shards > 1 {
+			return finishShard(j, t, stdout)
 		}
-		return finishRun(in, res, st, stdout, stderr)
+		return finishRun(j, t, stdout, stderr)
 	}
 	return c
 }
 
-// preflight checks that every node has an emissivity and a condition
-// before any ray is traced.
-func preflight(in *input) error {
-	nodes, err := raytrace.Nodes(in.mesh, in.opts)
-	if err != nil {
-		return err
-	}
-	for _, n := range nodes {
-		surf := in.mesh.Surfaces[n.Surface].Name
-		side := in.lc.spec(surf)
-		if n.Back {
-			side = in.lc.spec(surf + ".back")
-		}
-		if side.Emissivity == nil {
-			return fmt.Errorf("%s: no emissivity for %s: set it in [surfaces.%q] or [defaults]", in.lc.path, n.Name, surf)
-		}
-		if _, err := condition(in.lc.spec(surf), 1); err != nil {
-			return fmt.Errorf("%s: surface %s: %w", in.lc.path, surf, err)
-		}
-	}
-	return nil
-}
-
 // finishRun smooths and solves, then writes everything and prints the
 // heat balance.
-func finishRun(in *input, res *raytrace.Result, st traceState, stdout, stderr io.Writer) error {
-	a, err := analyse(in.lc, res)
+func finishRun(j *job, t *analysis.Traced, stdout, stderr io.Writer) error {
+	a, err := j.in.Analyse(t.Result)
 	if err != nil {
 		return err
 	}
-	return finish(in, res, st, a, stdout, stderr)
+	return finish(j, report.Outputs{Input: j.in, Traced: t, Analysis: a, Pictures: j.pictures}, stdout, stderr)
 }
 
 func solveCommand() *command {
@@ -131,37 +106,24 @@ the ray settings is refused, naming what changed.`,
 		if len(pos) != 1 || !strings.EqualFold(filepath.Ext(pos[0]), ".toml") {
 			return usagef("solve takes one case file (.toml)")
 		}
-		in, err := loadInput(c.Flags, &tf, pos)
+		j, err := loadInput(c.Flags, &tf, pos)
 		if err != nil {
 			return err
 		}
-		ck, old, err := readCheckpoint(in.outDir)
+		ck, old, err := analysis.ReadTallies(j.run.Dir)
 		if err != nil {
 			return fmt.Errorf("%w (run trace or run first)", err)
 		}
-		if old.Shards > 1 {
-			return fmt.Errorf("%s holds shard %d/%d only: merge the shards first", in.outDir, old.Shard, old.Shards)
+		t, err := j.in.FromTallies(ck, old)
+		var me *analysis.MismatchError
+		if errors.As(err, &me) {
+			return fmt.Errorf("the tallies in %s were traced from other mesh files or ray settings: %s; change the case back, or give the same flags as the run that traced them (--rays, --seed, --halfwidth, --max-rays, --confidence, --facets), or trace again",
+				j.run.Dir, strings.Join(me.Differences, "; "))
 		}
-		nodes, err := raytrace.Nodes(in.mesh, in.opts)
 		if err != nil {
 			return err
 		}
-		// Replicates come with the tallies; anything else that differs means
-		// the tallies belong to another geometry or other ray settings.
-		in.opts.Replicates = old.Options.Replicates
-		meta, err := in.meta(len(nodes))
-		if err != nil {
-			return err
-		}
-		if d := meta.differences(old); len(d) > 0 {
-			return fmt.Errorf("the tallies in %s were traced from other mesh files or ray settings: %s; run the case again", in.outDir, strings.Join(d, "; "))
-		}
-		res, err := raytrace.NewResult(nodes, ck.Tally, ck.Replicas, in.opts)
-		if err != nil {
-			return err
-		}
-		res.Targets = ck.Targets
-		return finishRun(in, res, traceState{complete: len(ck.Done) > 0}, stdout, stderr)
+		return finishRun(j, t, stdout, stderr)
 	}
 	return c
 }

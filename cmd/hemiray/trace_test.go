@@ -7,6 +7,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/hemiray/hemiray/raytrace/report"
 )
 
 // --threads 1 and --threads 2 must write byte-identical view-factor files.
@@ -27,7 +29,7 @@ func TestTraceThreadsIdentical(t *testing.T) {
 			t.Errorf("%s differs between 1 and 2 threads", f)
 		}
 	}
-	var s summary
+	var s report.Summary
 	b, _ := os.ReadFile(filepath.Join(outs[0], "summary.json"))
 	if err := json.Unmarshal(b, &s); err != nil {
 		t.Fatal(err)

@@ -7,10 +7,10 @@ import (
 	"io"
 	"path/filepath"
 	"runtime"
-	"text/tabwriter"
 	"time"
 
 	"github.com/hemiray/hemiray/raytrace"
+	"github.com/hemiray/hemiray/raytrace/report"
 )
 
 func verifyCommand() *command {
@@ -48,22 +48,14 @@ case fails.`,
 		start := time.Now()
 		var checks []raytrace.ReferenceCheck
 		for _, rc := range raytrace.ReferenceCases() {
-			ch, err := rc.Check(ctx, raytrace.Options{Rays: *rays, Seed: *seed, Threads: *threads})
+			ch, err := rc.Check(ctx, raytrace.Options{Settings: raytrace.Settings{Rays: *rays, Seed: *seed}, Threads: *threads})
 			if err != nil {
 				return fmt.Errorf("%s: %w", rc.Name, err)
 			}
 			checks = append(checks, ch)
 		}
-		failed := printVerify(stdout, checks)
-		err = writeCSV(filepath.Join(*out, "verify.csv"), func(emit func(...string)) error {
-			emit("case", "from", "to", "reference", "source", "estimate", "stderr", "halfwidth", "tessellation_bound", "bound_derivation", "deviation_sigma", "pass")
-			for _, ch := range checks {
-				emit(ch.Name, ch.From, ch.To, num(ch.Reference), ch.Source, num(ch.Estimate.F), num(ch.Estimate.StdErr),
-					num(ch.Estimate.HalfWidth), num(ch.Bound), ch.Why, num(ch.Score), fmt.Sprint(ch.Pass))
-			}
-			return nil
-		})
-		if err != nil {
+		failed := report.VerifyTable(stdout, checks)
+		if err := report.WriteVerify(*out, checks); err != nil {
 			return err
 		}
 		fmt.Fprintf(stdout, "\n%d of %d cases pass (|F̂ − F| ≤ 4σ + tessellation bound), %d rays per node, seed %d, %.1f s; wrote %s\n",
@@ -74,25 +66,4 @@ case fails.`,
 		return nil
 	}
 	return c
-}
-
-// printVerify prints the table and returns the number of failures.
-func printVerify(w io.Writer, checks []raytrace.ReferenceCheck) int {
-	tw := tabwriter.NewWriter(w, 0, 4, 2, ' ', 0)
-	fmt.Fprintln(tw, "case\tpair\treference\testimate\t± (95%)\tbound\tdeviation\tresult\t")
-	failed := 0
-	for _, ch := range checks {
-		res := "pass"
-		if !ch.Pass {
-			res = "FAIL"
-			failed++
-		}
-		fmt.Fprintf(tw, "%s\t%s → %s\t%.5f\t%.5f\t%.5f\t%.1e\t%.1fσ\t%s\t\n", ch.Name, ch.From, ch.To, ch.Reference, ch.Estimate.F, ch.Estimate.HalfWidth, ch.Bound, ch.Score, res)
-	}
-	tw.Flush()
-	fmt.Fprintln(w, "\nsources:")
-	for _, ch := range checks {
-		fmt.Fprintf(w, "  %s: %s; bound: %s\n", ch.Name, ch.Source, ch.Why)
-	}
-	return failed
 }

@@ -1,4 +1,4 @@
-package main
+package report
 
 import (
 	"fmt"
@@ -15,12 +15,12 @@ import (
 // replicate is "all" for the pooled tallies or 0, 1, … for replicates;
 // to is a node name, "ambient", "rays" (the rays traced from the node) or
 // "backface:SURFACE". Replicate rows, when present, add up to the pooled
-// ones. Above squareLimit nodes it is not written (it would run to
+// ones. Above SquareLimit nodes it is not written (it would run to
 // gigabytes); tallies.bin has the same counts.
-const tallyFile = "tallies.csv"
+const TalliesCSV = "tallies.csv"
 
 func writeTallies(dir string, res *raytrace.Result, surfaces []string) error {
-	return writeCSV(filepath.Join(dir, tallyFile), func(emit func(...string)) error {
+	return writeCSV(filepath.Join(dir, TalliesCSV), func(emit func(...string)) error {
 		emit("replicate", "from", "to", "count")
 		one := func(rep string, t *raytrace.Tally) {
 			for i, n := range res.Nodes {

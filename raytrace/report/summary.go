@@ -1,9 +1,10 @@
-package main
+package report
 
 import (
 	"time"
 
 	"github.com/hemiray/hemiray/raytrace"
+	"github.com/hemiray/hemiray/raytrace/analysis"
 )
 
 // cautions are written into every summary.json, as in the README.
@@ -12,7 +13,8 @@ var cautions = []string{
 	"Where results bear on safety (furnaces and ovens, fire exposure, burn-hazard surface temperatures, spacecraft), the applicable codes and standards and licensed professional practice govern.",
 }
 
-type nodeSummary struct {
+// NodeSummary is one node's line in summary.json.
+type NodeSummary struct {
 	Name           string  `json:"name"`
 	AreaM2         float64 `json:"area_m2"`
 	Rays           int64   `json:"rays"`
@@ -23,7 +25,8 @@ type nodeSummary struct {
 	ReciprocityErr float64 `json:"max_reciprocity_error,omitempty"`
 }
 
-type summary struct {
+// Summary is the content of summary.json.
+type Summary struct {
 	Tool            string                  `json:"tool"`
 	Version         string                  `json:"version"`
 	Created         string                  `json:"created"`
@@ -42,33 +45,49 @@ type summary struct {
 	TraceSeconds    float64                 `json:"trace_seconds"`
 	RaysPerSecond   float64                 `json:"rays_per_second"`
 	Threads         int                     `json:"threads"`
-	Nodes           []nodeSummary           `json:"nodes"`
+	Nodes           []NodeSummary           `json:"nodes"`
 	BackFaces       []raytrace.BackFaceNote `json:"backface_hits"`
 	Warnings        []string                `json:"warnings"`
 	Cautions        []string                `json:"cautions"`
 	Extra           map[string]any          `json:"results,omitempty"`
 }
 
-func newSummary(in *input, res *raytrace.Result, warnings []string) (*summary, error) {
-	h, err := in.hash()
+// newSummary builds summary.json's content. t is nil when the view factors
+// were given rather than traced; a is nil for a trace alone.
+func newSummary(in *analysis.Input, t *analysis.Traced, a *analysis.Result, warnings []string) (*Summary, error) {
+	h, err := in.Hash()
 	if err != nil {
 		return nil, err
 	}
-	s := &summary{
-		Tool: "hemiray", Version: version, Created: time.Now().UTC().Format(time.RFC3339),
-		InputHash: h, Inputs: in.files, Seed: in.opts.Seed, RaysPerNode: in.opts.Rays,
-		HalfWidthTarget: in.opts.HalfWidth, Confidence: in.opts.Confidence, FacetNodes: in.opts.FacetNodes,
-		RaysTraced: res.RaysTraced(), BVHBuildSeconds: res.BuildSeconds, TraceSeconds: res.TraceSeconds,
-		Threads: res.Threads, BackFaces: res.BackFaces(surfaceNames(in.mesh)),
-		Warnings: append([]string{}, warnings...), Cautions: cautions,
+	st := in.Settings.WithDefaults()
+	s := &Summary{
+		Tool: "hemiray", Version: analysis.Version, Created: time.Now().UTC().Format(time.RFC3339),
+		InputHash: h, Inputs: in.Files, Seed: st.Seed, RaysPerNode: st.Rays,
+		HalfWidthTarget: st.HalfWidth, Confidence: st.Confidence, FacetNodes: st.FacetNodes,
+		Warnings: append([]string{}, warnings...), Cautions: cautions, Complete: true,
 	}
+	if a != nil {
+		s.Extra = analysisSummary(a)
+	}
+	if t == nil {
+		s.RaysPerNode, s.Seed = 0, 0
+		for _, n := range a.Nodes {
+			s.Nodes = append(s.Nodes, NodeSummary{Name: n.Name, AreaM2: n.Area})
+		}
+		return s, nil
+	}
+	res := t.Result
+	s.Complete = t.Complete
+	s.RaysTraced, s.BVHBuildSeconds, s.TraceSeconds, s.Threads = res.RaysTraced(), res.BuildSeconds, res.TraceSeconds, res.Threads
+	s.BackFaces = res.BackFaces(analysis.SurfaceNames(in.Mesh))
 	if res.TraceSeconds > 0 {
 		s.RaysPerSecond = float64(s.RaysTraced) / res.TraceSeconds
 	}
+	open := res.HasAmbient()
 	for i, n := range res.Nodes {
-		ns := nodeSummary{Name: n.Name, AreaM2: n.Area, Rays: res.Rays[i], RowSum: res.RowSum(i),
+		ns := NodeSummary{Name: n.Name, AreaM2: n.Area, Rays: res.Rays[i], RowSum: res.RowSum(i),
 			BackFaceHits: res.Back[i].Sum(), MaxHalfWidth: res.RowHalfWidth(i)}
-		if res.HasAmbient() {
+		if open {
 			ns.ToAmbient = res.Factor(i, res.Ambient()).F
 		}
 		s.EscapedRays += res.Escaped[i]
@@ -76,4 +95,21 @@ func newSummary(in *input, res *raytrace.Result, warnings []string) (*summary, e
 		s.Nodes = append(s.Nodes, ns)
 	}
 	return s, nil
+}
+
+// analysisSummary is what summary.json carries of an analysis.
+func analysisSummary(a *analysis.Result) map[string]any {
+	return map[string]any{
+		"smoothing": map[string]any{
+			"method":             "constrained maximum likelihood (Daun, Morton & Howell 2005)",
+			"reciprocity_before": a.Smoothed.ReciprocityBefore, "reciprocity_after": a.Smoothed.ReciprocityAfter,
+			"summation_before": a.Smoothed.SummationBefore, "summation_after": a.Smoothed.SummationAfter,
+			"max_moved_stderr": a.Smoothed.MaxMoved, "newton_iterations": a.Smoothed.Iterations,
+		},
+		"ambient_temperature_K": a.AmbientT,
+		"heat_to_ambient_W":     a.Solution.ToAmbient,
+		"energy_imbalance":      a.Solution.Imbalance,
+		"replicates":            a.Replicates,
+		"notes":                 a.Notes,
+	}
 }

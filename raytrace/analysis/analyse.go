@@ -1,0 +1,160 @@
+package analysis
+
+import (
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/hemiray/hemiray/raytrace"
+	"github.com/hemiray/hemiray/raytrace/exchange"
+	"github.com/hemiray/hemiray/raytrace/smooth"
+)
+
+// Result is a case analysed: the smoothed matrix, the exchange solution,
+// intervals on T and Q, and exchange areas for conductances.
+type Result struct {
+	Nodes []raytrace.Node
+	// Open says whether the model has an ambient column (rays escape).
+	Open bool
+	// Raw is the matrix before smoothing (F per row, columns increasing)
+	// and RawAmbient its ambient column.
+	Raw        [][]exchange.Entry
+	RawAmbient []float64
+	Smoothed   *smooth.Result
+	Solution   *exchange.Solution
+	Info       []NodeInfo
+	AmbientT   float64 // K
+	// S are the total exchange areas A_iℱ_ij in m² and ToAmbient those to
+	// the ambient; nil above exchange.DenseLimit nodes.
+	S         [][]float64
+	ToAmbient []float64
+	// THalf and QHalf are the half-widths of the Student-t intervals on T
+	// and Q from Replicates independent replicates at Confidence (nil
+	// without replicates).
+	THalf, QHalf []float64
+	Replicates   int
+	Confidence   float64
+	Notes        []string
+}
+
+// Analyse smooths the tallies of res, solves the exchange with the case's
+// conditions, computes exchange areas and, when res has replicates,
+// Student-t intervals on T and Q.
+func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
+	if in.Case == nil {
+		return nil, fmt.Errorf("an exchange solve needs a case file with emissivities and conditions")
+	}
+	open := res.HasAmbient()
+	sm, err := smoothTally(res, &res.Tally, open)
+	if err != nil {
+		return nil, err
+	}
+	var reps []*smooth.Result
+	var notes []string
+	for r := range res.Replicas {
+		s, err := smoothTally(res, &res.Replicas[r], open)
+		if err != nil {
+			notes = append(notes, fmt.Sprintf("replicate %d skipped: %v", r, err))
+			continue
+		}
+		reps = append(reps, s)
+	}
+	a, err := in.solve(res.Nodes, sm, reps, open, res.Options.Confidence)
+	if err != nil {
+		return nil, err
+	}
+	a.Notes = append(notes, a.Notes...)
+	a.Raw, a.RawAmbient = make([][]exchange.Entry, len(res.Nodes)), make([]float64, len(res.Nodes))
+	for i := range res.Nodes {
+		row := &res.Hits[i]
+		a.Raw[i] = make([]exchange.Entry, len(row.Col))
+		for k, j := range row.Col {
+			a.Raw[i][k] = exchange.Entry{J: j, F: float64(row.Count[k]) / float64(res.Rays[i])}
+		}
+		if res.Rays[i] > 0 {
+			a.RawAmbient[i] = float64(res.Escaped[i]) / float64(res.Rays[i])
+		}
+	}
+	return a, nil
+}
+
+// smoothTally smooths a tally (pooled or a replicate).
+func smoothTally(res *raytrace.Result, t *raytrace.Tally, open bool) (*smooth.Result, error) {
+	c := smooth.Counts{Area: make([]float64, len(res.Nodes)), Rays: t.Rays, Hits: make([][]smooth.Entry, len(res.Nodes))}
+	for i, n := range res.Nodes {
+		c.Area[i] = n.Area
+		c.Hits[i] = make([]smooth.Entry, len(t.Hits[i].Col))
+		for k, j := range t.Hits[i].Col {
+			c.Hits[i][k] = smooth.Entry{J: j, K: t.Hits[i].Count[k]}
+		}
+	}
+	if open {
+		c.Ambient = t.Escaped
+	}
+	return smooth.Smooth(c)
+}
+
+// solve solves the exchange for the pooled smoothed matrix and every
+// replicate's, and computes exchange areas.
+func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.Result, open bool, confidence float64) (*Result, error) {
+	p, info, err := problem(in.Case, in.Mesh, nodes, sm, open)
+	if err != nil {
+		return nil, err
+	}
+	a := &Result{Nodes: nodes, Open: open, Smoothed: sm, Info: info, AmbientT: p.AmbientT, Confidence: confidence}
+	if a.Solution, err = exchange.Solve(p); err != nil {
+		return nil, err
+	}
+	if len(nodes) <= exchange.DenseLimit {
+		if a.S, a.ToAmbient, err = exchange.ExchangeAreas(p.Area, p.Emissivity, p.F, p.Ambient); err != nil {
+			return nil, err
+		}
+	} else {
+		a.Notes = append(a.Notes, fmt.Sprintf("conductances.csv not written: %d nodes exceed the dense limit of %d for exchange factors", len(nodes), exchange.DenseLimit))
+	}
+	var Ts, Qs [][]float64
+	for r, s := range reps {
+		pr, _, err := problem(in.Case, in.Mesh, nodes, s, open)
+		if err != nil {
+			return nil, err
+		}
+		sol, err := exchange.Solve(pr)
+		if err != nil {
+			a.Notes = append(a.Notes, fmt.Sprintf("replicate %d skipped: %v", r, err))
+			continue
+		}
+		Ts, Qs = append(Ts, sol.T), append(Qs, sol.Q)
+	}
+	if len(Ts) >= 2 {
+		a.Replicates = len(Ts)
+		a.THalf = TInterval(Ts, confidence)
+		a.QHalf = TInterval(Qs, confidence)
+	}
+	return a, nil
+}
+
+// TInterval returns, for every column of rows (one row per independent
+// replicate, R ≥ 2 rows), the half-width t·s/√R of the Student-t interval
+// on the mean at the given confidence, with s the sample standard
+// deviation and t the quantile of Student's t with R−1 degrees of freedom
+// (the batch-means interval, e.g. Law, "Simulation Modeling and Analysis",
+// 5th ed., 2015, eq. 4.12).
+func TInterval(rows [][]float64, confidence float64) []float64 {
+	R := len(rows)
+	t := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(R - 1)}.Quantile(0.5 + confidence/2)
+	out := make([]float64, len(rows[0]))
+	for i := range out {
+		m := 0.0
+		for _, r := range rows {
+			m += r[i]
+		}
+		m /= float64(R)
+		ss := 0.0
+		for _, r := range rows {
+			ss += (r[i] - m) * (r[i] - m)
+		}
+		out[i] = t * math.Sqrt(ss/float64(R-1)) / math.Sqrt(float64(R))
+	}
+	return out
+}

@@ -1,0 +1,162 @@
+package analysis
+
+import (
+	"crypto/sha256"
+	"encoding/hex"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"github.com/hemiray/hemiray/mesh"
+	"github.com/hemiray/hemiray/raytrace"
+)
+
+// Input is a model ready to trace: its mesh, the files it came from and
+// the settings that fix its tallies; Case is nil for meshes given directly.
+type Input struct {
+	Case     *Case
+	Mesh     *mesh.Mesh
+	Files    []string
+	Settings raytrace.Settings
+}
+
+// Open validates c, loads its meshes, checks its surface tables against
+// the model's surfaces and flips the surfaces marked flip.
+func Open(c *Case) (*Input, error) {
+	if err := c.Validate(); err != nil {
+		return nil, err
+	}
+	unit := mesh.Metre
+	if c.Model.Units != "" {
+		var err error
+		if unit, err = mesh.ParseUnit(c.Model.Units); err != nil {
+			return nil, keyErr([]string{"model", "units"}, "%v", err)
+		}
+	}
+	var files []string
+	for _, f := range c.Model.Files {
+		if !filepath.IsAbs(f) {
+			f = filepath.Join(c.Dir, f)
+		}
+		files = append(files, f)
+	}
+	m, err := mesh.Load(files, mesh.LoadOptions{Unit: unit, GroupByMaterial: c.Model.GroupBy == "material"})
+	if err != nil {
+		return nil, err
+	}
+	if err := c.checkSurfaces(m); err != nil {
+		return nil, err
+	}
+	names := SurfaceNames(m)
+	for i, name := range names {
+		if c.Spec(name).IsFlipped() {
+			m.FlipSurface(i)
+		}
+	}
+	return &Input{Case: c, Mesh: m, Files: files, Settings: c.Settings(names)}, nil
+}
+
+// OpenMeshes loads mesh files given without a case; s.Units and
+// s.GroupByMaterial say how to read them.
+func OpenMeshes(files []string, s raytrace.Settings) (*Input, error) {
+	unit, err := mesh.ParseUnit(s.Units)
+	if err != nil {
+		return nil, err
+	}
+	s.Units = string(unit)
+	m, err := mesh.Load(files, mesh.LoadOptions{Unit: unit, GroupByMaterial: s.GroupByMaterial})
+	if err != nil {
+		return nil, err
+	}
+	return &Input{Mesh: m, Files: files, Settings: s}, nil
+}
+
+// checkSurfaces checks the names in the surface tables against m.
+func (c *Case) checkSurfaces(m *mesh.Mesh) error {
+	for _, name := range sortedKeys(c.Surfaces) {
+		sp := c.Surfaces[name]
+		table := []string{"surfaces", name}
+		base, isBack := strings.CutSuffix(name, ".back")
+		switch {
+		case isBack && m.SurfaceIndex(base) >= 0:
+			if !c.Spec(base).IsTwoSided() {
+				return keyErr(table, "[surfaces.%q] sets the back of %s, which is not two_sided", name, base)
+			}
+			if sp.TwoSided != nil || sp.Flip != nil {
+				return keyErr(table, "two_sided and flip belong to [surfaces.%q], not to its back", base)
+			}
+			if sp.conditions() > 0 {
+				return keyErr(table, "the two sides of %s share one temperature: give its condition in [surfaces.%q]", base, base)
+			}
+		case m.SurfaceIndex(name) < 0:
+			return keyErr(table, "no surface %q in the model; its surfaces are: %s", name, strings.Join(SurfaceNames(m), ", "))
+		}
+	}
+	return nil
+}
+
+// SurfaceNames returns the names of m's surfaces in order.
+func SurfaceNames(m *mesh.Mesh) []string {
+	out := make([]string, len(m.Surfaces))
+	for i, s := range m.Surfaces {
+		out[i] = s.Name
+	}
+	return out
+}
+
+// Options returns the estimator options of the input (threads and the
+// other runtime knobs at their defaults).
+func (in *Input) Options() raytrace.Options { return raytrace.Options{Settings: in.Settings} }
+
+// Nodes returns the radiation nodes of the input.
+func (in *Input) Nodes() ([]raytrace.Node, error) { return raytrace.Nodes(in.Mesh, in.Options()) }
+
+// Digests returns the SHA-256 of every input file.
+func (in *Input) Digests() ([]raytrace.FileDigest, error) {
+	var out []raytrace.FileDigest
+	for _, f := range in.Files {
+		b, err := os.ReadFile(f)
+		if err != nil {
+			return nil, err
+		}
+		sum := sha256.Sum256(b)
+		abs, err := filepath.Abs(f)
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, raytrace.FileDigest{Path: abs, SHA256: hex.EncodeToString(sum[:])})
+	}
+	return out, nil
+}
+
+// Hash returns the input hash: the settings and the files' bytes.
+func (in *Input) Hash() (string, error) {
+	d, err := in.Digests()
+	if err != nil {
+		return "", err
+	}
+	return in.Settings.Hash(d), nil
+}
+
+// Preflight checks, before any ray is traced, that every node of a case
+// has an emissivity and a boundary condition.
+func (in *Input) Preflight() error {
+	if in.Case == nil {
+		return fmt.Errorf("an exchange solve needs a case file with emissivities and conditions")
+	}
+	nodes, err := in.Nodes()
+	if err != nil {
+		return err
+	}
+	for _, n := range nodes {
+		surf := in.Mesh.Surfaces[n.Surface].Name
+		if _, err := in.Case.emissivity(surf, n); err != nil {
+			return err
+		}
+		if _, err := condition(in.Case.Spec(surf), 1); err != nil {
+			return fmt.Errorf("%s: surface %s: %w", in.Case.Path, surf, err)
+		}
+	}
+	return nil
+}

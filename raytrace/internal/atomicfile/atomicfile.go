@@ -1,0 +1,56 @@
+// Package atomicfile writes result files so that a killed run never leaves
+// a truncated one: through a temporary file in the same folder, synced,
+// then renamed over the target.
+package atomicfile
+
+import (
+	"bufio"
+	"errors"
+	"fmt"
+	"io"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+)
+
+// Write writes path through a temporary file and a rename. The file is
+// created with mode 0666 less the process's umask, as other Unix tools
+// create files, so colleagues can read results on a shared folder.
+func Write(path string, write func(w io.Writer) error) error {
+	dir := filepath.Dir(path)
+	if err := os.MkdirAll(dir, 0o777); err != nil {
+		return err
+	}
+	var tmp *os.File
+	for range 100 {
+		name := filepath.Join(dir, fmt.Sprintf(".%s.%08x.tmp", filepath.Base(path), rand.Uint32()))
+		f, err := os.OpenFile(name, os.O_RDWR|os.O_CREATE|os.O_EXCL, 0o666)
+		if errors.Is(err, os.ErrExist) {
+			continue
+		}
+		if err != nil {
+			return err
+		}
+		tmp = f
+		break
+	}
+	if tmp == nil {
+		return fmt.Errorf("write %s: no free temporary name", path)
+	}
+	defer os.Remove(tmp.Name())
+	bw := bufio.NewWriterSize(tmp, 1<<16)
+	err := write(bw)
+	if err == nil {
+		err = bw.Flush()
+	}
+	if err == nil {
+		err = tmp.Sync()
+	}
+	if cerr := tmp.Close(); err == nil {
+		err = cerr
+	}
+	if err != nil {
+		return fmt.Errorf("write %s: %w", path, err)
+	}
+	return os.Rename(tmp.Name(), path)
+}

@@ -1,0 +1,40 @@
+package atomicfile
+
+import (
+	"errors"
+	"io"
+	"os"
+	"path/filepath"
+	"syscall"
+	"testing"
+)
+
+// A failed write leaves neither the target nor a temporary file, and a
+// written file honours the umask (common practice for Unix tools).
+func TestWrite(t *testing.T) {
+	dir := t.TempDir()
+	p := filepath.Join(dir, "sub", "a.csv")
+	if err := Write(p, func(w io.Writer) error { _, err := io.WriteString(w, "x\n"); return err }); err != nil {
+		t.Fatal(err)
+	}
+	old := syscall.Umask(0o022)
+	defer syscall.Umask(old)
+	if err := Write(p, func(w io.Writer) error { _, err := io.WriteString(w, "y\n"); return err }); err != nil {
+		t.Fatal(err)
+	}
+	st, err := os.Stat(p)
+	if err != nil || st.Mode().Perm() != 0o644 {
+		t.Errorf("mode %v, %v; want 0644 under umask 022", st.Mode().Perm(), err)
+	}
+	boom := errors.New("boom")
+	if err := Write(filepath.Join(dir, "b.csv"), func(w io.Writer) error { return boom }); !errors.Is(err, boom) {
+		t.Errorf("error %v", err)
+	}
+	left, _ := os.ReadDir(dir)
+	if len(left) != 1 {
+		t.Errorf("left behind: %v", left)
+	}
+	if b, _ := os.ReadFile(p); string(b) != "y\n" {
+		t.Errorf("content %q", b)
+	}
+}

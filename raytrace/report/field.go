@@ -1,0 +1,72 @@
+package report
+
+import (
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+)
+
+// ErrUnknownColoring is returned by ReadField for a colouring it does not know.
+var ErrUnknownColoring = errors.New("unknown colouring")
+
+// readNodeColumn reads column col of a CSV keyed by its first column.
+func readNodeColumn(path, col string) (map[string]float64, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	recs, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	if len(recs) == 0 {
+		return nil, fmt.Errorf("%s: empty", path)
+	}
+	k := -1
+	for i, h := range recs[0] {
+		if h == col {
+			k = i
+		}
+	}
+	if k < 0 {
+		return nil, fmt.Errorf("%s has no column %q (columns: %s)", path, col, strings.Join(recs[0][1:], ", "))
+	}
+	out := map[string]float64{}
+	for _, r := range recs[1:] {
+		if v, err := strconv.ParseFloat(r[k], 64); err == nil {
+			out[r[0]] = v
+		}
+	}
+	return out, nil
+}
+
+// ReadField reads the values and label of a colouring from a results folder:
+// temperature, heat-flux, ambient or vf:NODE.
+func ReadField(dir, colorBy string) (map[string]float64, string, error) {
+	matrix := filepath.Join(dir, "viewfactors_smoothed.csv")
+	if _, err := os.Stat(matrix); err != nil {
+		matrix = filepath.Join(dir, "viewfactors.csv")
+	}
+	switch {
+	case colorBy == "temperature":
+		v, err := readNodeColumn(filepath.Join(dir, "surfaces.csv"), "T_K")
+		return v, "T [K]", err
+	case colorBy == "heat-flux":
+		v, err := readNodeColumn(filepath.Join(dir, "surfaces.csv"), "q_W_per_m2")
+		return v, "q [W/m²]", err
+	case colorBy == "ambient":
+		v, err := readNodeColumn(matrix, "ambient")
+		return v, "F to ambient", err
+	case strings.HasPrefix(colorBy, "vf:"):
+		node := strings.TrimPrefix(colorBy, "vf:")
+		v, err := readNodeColumn(matrix, node)
+		return v, "F to " + node, err
+	}
+	return nil, "", fmt.Errorf("%w %q: use surface, side, temperature, heat-flux, ambient or vf:NODE", ErrUnknownColoring, colorBy)
+}
+

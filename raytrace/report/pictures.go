@@ -1,0 +1,255 @@
+package report
+
+import (
+	"fmt"
+	"image"
+	"image/color"
+	"image/png"
+	"io"
+	"math"
+	"path/filepath"
+	"strings"
+
+	"github.com/hemiray/hemiray/geometry"
+	"github.com/hemiray/hemiray/mesh"
+	"github.com/hemiray/hemiray/raytrace"
+	"github.com/hemiray/hemiray/raytrace/analysis"
+	"github.com/hemiray/hemiray/raytrace/bvh"
+	"github.com/hemiray/hemiray/raytrace/internal/atomicfile"
+	"github.com/hemiray/hemiray/raytrace/render"
+)
+
+// facetNodes maps each facet to its front and back node (−1: none).
+func facetNodes(m *mesh.Mesh, nodes []raytrace.Node) (front, back []int32) {
+	front, back = make([]int32, len(m.Facets)), make([]int32, len(m.Facets))
+	for f := range front {
+		front[f], back[f] = -1, -1
+	}
+	for i, n := range nodes {
+		for _, f := range n.Facets {
+			if n.Back {
+				back[f] = int32(i)
+			} else {
+				front[f] = int32(i)
+			}
+		}
+	}
+	return front, back
+}
+
+// Picture renders m with the given colouring into an image. Back sides
+// that are no radiation node are see-through (an enclosure seen from
+// outside shows its inside), except in side mode.
+type Picture struct {
+	m       *mesh.Mesh
+	tree    *bvh.Tree
+	normal  []geometry.Vec3
+	hasBack []bool // facets whose back is a node (two-sided surfaces)
+}
+
+func NewPicture(m *mesh.Mesh, twoSided []string) *Picture {
+	p := &Picture{m: m, normal: make([]geometry.Vec3, len(m.Facets)), hasBack: make([]bool, len(m.Facets))}
+	for _, name := range twoSided {
+		if s := m.SurfaceIndex(name); s >= 0 {
+			for _, f := range m.Surfaces[s].Facets {
+				p.hasBack[f] = true
+			}
+		}
+	}
+	for f := range m.Facets {
+		p.normal[f] = m.Triangle(f).Normal()
+	}
+	p.tree = bvh.Build(m.Vertices, m.Facets, bvh.Options{})
+	return p
+}
+
+func (p *Picture) draw(view render.View, w, h int, colour func(int32, bool) color.RGBA, allSides bool) *image.RGBA {
+	cam := render.Frame(p.m.Bounds(), view, w, h)
+	sc := render.Scene{Tree: p.tree, Normal: p.normal, Color: colour}
+	if !allSides {
+		sc.Visible = func(f int32, front bool) bool { return front || p.hasBack[f] }
+	}
+	return render.Render(sc, cam, 0)
+}
+
+// BySurface colours facets by surface, with a legend.
+func (p *Picture) BySurface(view render.View, w, h int) *image.RGBA {
+	img := p.draw(view, w, h, func(f int32, _ bool) color.RGBA { return render.SurfaceColor(int(p.m.SurfaceOf[f])) }, false)
+	var names []string
+	var cols []color.RGBA
+	for i, s := range p.m.Surfaces {
+		names, cols = append(names, s.Name), append(cols, render.SurfaceColor(i))
+	}
+	render.Legend(img, "surfaces", names, cols)
+	render.Caption(img, "hemiray: surfaces; the backs of one-sided surfaces are see-through, so enclosures show their inside")
+	return img
+}
+
+// BySide colours fronts and backs, to spot flipped normals.
+func (p *Picture) BySide(view render.View, w, h int) *image.RGBA {
+	img := p.draw(view, w, h, func(_ int32, front bool) color.RGBA {
+		if front {
+			return render.Front
+		}
+		return render.Back
+	}, true)
+	render.Legend(img, "facet sides", []string{"front (radiating side)", "back"}, []color.RGBA{render.Front, render.Back})
+	render.Caption(img, "hemiray: facet sides; a back seen where a front is expected means flipped normals")
+	return img
+}
+
+// ByField colours each node side by a value, with a colour bar; sides
+// without a value are grey.
+func (p *Picture) ByField(view render.View, w, h int, nodes []raytrace.Node, value map[string]float64, label string) *image.RGBA {
+	front, back := facetNodes(p.m, nodes)
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, v := range value {
+		lo, hi = math.Min(lo, v), math.Max(hi, v)
+	}
+	if !(hi > lo) {
+		lo, hi = lo-0.5, lo+0.5
+	}
+	of := func(node int32) (color.RGBA, bool) {
+		if node < 0 {
+			return render.NoData, false
+		}
+		v, ok := value[nodes[node].Name]
+		if !ok {
+			return render.NoData, false
+		}
+		return render.Viridis((v - lo) / (hi - lo)), true
+	}
+	img := p.draw(view, w, h, func(f int32, isFront bool) color.RGBA {
+		n := back[f]
+		if isFront {
+			n = front[f]
+		}
+		c, _ := of(n)
+		return c
+	}, false)
+	render.ColorBar(img, label, lo, hi, false)
+	what := map[string]string{"q [W/m²]": "net radiative heat flux leaving each surface (negative: absorbed)", "T [K]": "temperature"}[label]
+	if what == "" {
+		what = label
+	}
+	render.Caption(img, "hemiray: "+what+"; grey: no value; backs of one-sided surfaces are see-through")
+	return img
+}
+
+// WritePNG writes img as a PNG file atomically.
+func WritePNG(path string, img image.Image) error {
+	return atomicfile.Write(path, func(w io.Writer) error { return png.Encode(w, img) })
+}
+
+// writePictures writes the pictures and the VTK file of a finished run into
+// dir: model_surfaces.png, model_heatflux.png (with an analysis),
+// viewfactors_heatmap.png and _log.png, and model.vtp. res is nil when the
+// view factors were given rather than traced; a is nil for a trace alone.
+func writePictures(dir string, in *analysis.Input, nodes []raytrace.Node, res *raytrace.Result, a *analysis.Result) ([]string, error) {
+	p := NewPicture(in.Mesh, in.Settings.TwoSided)
+	view := render.View{Azimuth: 35, Elevation: 25}
+	written := []string{"model_surfaces.png"}
+	if err := WritePNG(filepath.Join(dir, "model_surfaces.png"), p.BySurface(view, 1024, 768)); err != nil {
+		return nil, err
+	}
+	if a != nil {
+		q := map[string]float64{}
+		for i, n := range nodes {
+			q[n.Name] = a.Solution.Flux(i)
+		}
+		if err := WritePNG(filepath.Join(dir, "model_heatflux.png"), p.ByField(view, 1024, 768, nodes, q, "q [W/m²]")); err != nil {
+			return nil, err
+		}
+		written = append(written, "model_heatflux.png")
+	}
+	if len(nodes) <= SquareLimit {
+		var rows, cols []string
+		var F [][]float64
+		if a != nil {
+			cols = nodeColumns(a)
+			for i := range nodes {
+				F = append(F, smoothedRow(a, i, make([]float64, len(cols))))
+			}
+		} else {
+			cols = columns(res)
+			for i := range nodes {
+				F = append(F, make([]float64, len(cols)))
+				for j := range cols {
+					F[i][j] = res.Factor(i, j).F
+				}
+			}
+		}
+		for _, n := range nodes {
+			rows = append(rows, n.Name)
+		}
+		for _, log := range []bool{false, true} {
+			name := "viewfactors_heatmap.png"
+			if log {
+				name = "viewfactors_heatmap_log.png"
+			}
+			if err := WritePNG(filepath.Join(dir, name), render.HeatMap(rows, cols, F, log)); err != nil {
+				return nil, err
+			}
+			written = append(written, name)
+		}
+	}
+	if err := writeVTP(filepath.Join(dir, "model.vtp"), in.Mesh, nodes, res, a); err != nil {
+		return nil, err
+	}
+	return append(written, "model.vtp"), nil
+}
+
+// writeVTP writes the facets with their node, surface, area and results.
+// F_to_ambient is the raw escape fraction; back-face hits are NaN when the
+// view factors were given rather than traced (res nil).
+func writeVTP(path string, m *mesh.Mesh, nodes []raytrace.Node, res *raytrace.Result, a *analysis.Result) error {
+	front, back := facetNodes(m, nodes)
+	n := len(m.Facets)
+	surf, node, backNode := make([]int32, n), make([]int32, n), make([]int32, n)
+	area, toAmb, backHits := make([]float64, n), make([]float64, n), make([]float64, n)
+	var T, q, Q []float64
+	if a != nil {
+		T, q, Q = make([]float64, n), make([]float64, n), make([]float64, n)
+	}
+	nan := math.NaN()
+	for f := range n {
+		surf[f], node[f], backNode[f], area[f] = m.SurfaceOf[f], front[f], back[f], m.FacetArea(f)
+		i := front[f]
+		if i < 0 {
+			toAmb[f], backHits[f] = nan, nan
+			if a != nil {
+				T[f], q[f], Q[f] = nan, nan, nan
+			}
+			continue
+		}
+		switch {
+		case res != nil:
+			toAmb[f] = float64(res.Escaped[i]) / float64(max(res.Rays[i], 1))
+			backHits[f] = float64(res.Back[i].Sum())
+		default:
+			toAmb[f], backHits[f] = a.RawAmbient[i], nan
+		}
+		if a != nil {
+			T[f], q[f], Q[f] = a.Solution.T[i], a.Solution.Flux(int(i)), a.Solution.Q[i]
+		}
+	}
+	cells := []mesh.CellArray{
+		{Name: "surface", Int: surf}, {Name: "node", Int: node}, {Name: "back_node", Int: backNode},
+		{Name: "area_m2", Float: area}, {Name: "F_to_ambient", Float: toAmb}, {Name: "backface_hits", Float: backHits},
+	}
+	if a != nil {
+		cells = append(cells, mesh.CellArray{Name: "T_K", Float: T}, mesh.CellArray{Name: "q_W_per_m2", Float: q}, mesh.CellArray{Name: "Q_W_of_node", Float: Q})
+	}
+	var names []string
+	for i, s := range m.Surfaces {
+		names = append(names, fmt.Sprintf("%d=%s", i, s.Name))
+	}
+	var nodeNames []string
+	for i, nd := range nodes {
+		if i < 200 {
+			nodeNames = append(nodeNames, fmt.Sprintf("%d=%s", i, nd.Name))
+		}
+	}
+	comment := "hemiray: surface " + strings.Join(names, " ") + "; node " + strings.Join(nodeNames, " ")
+	return atomicfile.Write(path, func(w io.Writer) error { return mesh.WriteVTP(w, m, cells, comment) })
+}

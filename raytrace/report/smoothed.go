@@ -1,0 +1,98 @@
+package report
+
+import (
+	"io"
+	"path/filepath"
+
+	"github.com/hemiray/hemiray/raytrace/analysis"
+	"github.com/hemiray/hemiray/raytrace/internal/atomicfile"
+)
+
+// nodeColumns returns the column names of a's square files: the nodes,
+// then the ambient when the model is open.
+func nodeColumns(a *analysis.Result) []string {
+	cols := make([]string, 0, len(a.Nodes)+1)
+	for _, n := range a.Nodes {
+		cols = append(cols, n.Name)
+	}
+	if a.Open {
+		cols = append(cols, "ambient")
+	}
+	return cols
+}
+
+// smoothedRow fills dense with row i of the smoothed matrix (ambient last
+// when open) and returns it.
+func smoothedRow(a *analysis.Result, i int, dense []float64) []float64 {
+	clear(dense)
+	for _, e := range a.Smoothed.F[i] {
+		dense[e.J] = e.F
+	}
+	if a.Open {
+		dense[len(a.Nodes)] = a.Smoothed.Ambient[i]
+	}
+	return dense
+}
+
+// writeSmoothed writes viewfactors_smoothed.csv (up to SquareLimit nodes)
+// and viewfactors_smoothed_pairs.csv; it returns the names written.
+func writeSmoothed(dir string, a *analysis.Result) ([]string, error) {
+	var written []string
+	cols := nodeColumns(a)
+	if len(a.Nodes) <= SquareLimit {
+		dense := make([]float64, len(cols))
+		err := writeCSV(filepath.Join(dir, "viewfactors_smoothed.csv"), func(emit func(...string)) error {
+			emit(append([]string{"from"}, cols...)...)
+			for i, n := range a.Nodes {
+				rec := []string{n.Name}
+				for _, f := range smoothedRow(a, i, dense) {
+					rec = append(rec, num(f))
+				}
+				emit(rec...)
+			}
+			return nil
+		})
+		if err != nil {
+			return nil, err
+		}
+		written = append(written, "viewfactors_smoothed.csv")
+	}
+	err := atomicfile.Write(filepath.Join(dir, "viewfactors_smoothed_pairs.csv"), func(w io.Writer) error {
+		lw := newLineWriter(w)
+		lw.buf = append(lw.buf, "from,to,F_raw,F_smoothed,moved_stderr\n"...)
+		row := func(from, to string, raw, sm, moved float64) error {
+			lw.name(from)
+			lw.name(to)
+			lw.float(raw)
+			lw.float(sm)
+			lw.float(moved)
+			return lw.end()
+		}
+		for i, n := range a.Nodes {
+			raw := a.Raw[i]
+			k := 0 // both rows have increasing columns: walk them together
+			for _, e := range a.Smoothed.F[i] {
+				for k < len(raw) && raw[k].J < e.J {
+					k++
+				}
+				r := 0.0
+				if k < len(raw) && raw[k].J == e.J {
+					r = raw[k].F
+				}
+				if err := row(n.Name, cols[e.J], r, e.F, e.Moved); err != nil {
+					return err
+				}
+			}
+			if a.Open {
+				if err := row(n.Name, "ambient", a.RawAmbient[i], a.Smoothed.Ambient[i], a.Smoothed.MovedAmbient[i]); err != nil {
+					return err
+				}
+			}
+		}
+		return lw.flush()
+	})
+	if err != nil {
+		return nil, err
+	}
+	return append(written, "viewfactors_smoothed_pairs.csv"), nil
+}

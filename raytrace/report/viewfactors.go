@@ -1,0 +1,85 @@
+package report
+
+import (
+	"io"
+	"path/filepath"
+
+	"github.com/hemiray/hemiray/raytrace"
+	"github.com/hemiray/hemiray/raytrace/internal/atomicfile"
+)
+
+// SquareLimit is the node count above which the square matrix files are
+// not written (the pairs files carry every non-zero entry).
+const SquareLimit = 2000
+
+// columns returns the column names of the square files.
+func columns(res *raytrace.Result) []string {
+	var cols []string
+	for _, n := range res.Nodes {
+		cols = append(cols, n.Name)
+	}
+	if res.HasAmbient() {
+		cols = append(cols, "ambient")
+	}
+	return cols
+}
+
+// writeViewFactors writes the raw view factors, their half-widths and the
+// pairs file; it returns the names written.
+func writeViewFactors(dir string, res *raytrace.Result) ([]string, error) {
+	var written []string
+	cols := columns(res)
+	if len(res.Nodes) <= SquareLimit {
+		for _, f := range []struct {
+			name  string
+			value func(raytrace.Factor) float64
+		}{
+			{"viewfactors.csv", func(f raytrace.Factor) float64 { return f.F }},
+			{"viewfactors_halfwidth.csv", func(f raytrace.Factor) float64 { return f.HalfWidth }},
+		} {
+			err := writeCSV(filepath.Join(dir, f.name), func(emit func(...string)) error {
+				emit(append([]string{"from"}, cols...)...)
+				for i, n := range res.Nodes {
+					rec := []string{n.Name}
+					for j := range cols {
+						rec = append(rec, num(f.value(res.Factor(i, j))))
+					}
+					emit(rec...)
+				}
+				return nil
+			})
+			if err != nil {
+				return nil, err
+			}
+			written = append(written, f.name)
+		}
+	}
+	err := atomicfile.Write(filepath.Join(dir, "viewfactors_pairs.csv"), func(w io.Writer) error {
+		lw := newLineWriter(w)
+		lw.buf = append(lw.buf, "from,to,F,stderr,halfwidth,hits,rays\n"...)
+		var werr error
+		for i, n := range res.Nodes {
+			res.Row(i, func(j int, f raytrace.Factor) {
+				lw.name(n.Name)
+				lw.name(cols[j])
+				lw.float(f.F)
+				lw.float(f.StdErr)
+				lw.float(f.HalfWidth)
+				lw.int(f.Hits)
+				lw.int(f.Rays)
+				if err := lw.end(); err != nil && werr == nil {
+					werr = err
+				}
+			})
+		}
+		if werr != nil {
+			return werr
+		}
+		return lw.flush()
+	})
+	if err != nil {
+		return nil, err
+	}
+	written = append(written, "viewfactors_pairs.csv")
+	return written, nil
+}

@@ -1,0 +1,104 @@
+package report
+
+import (
+	"fmt"
+	"path/filepath"
+
+	"github.com/hemiray/hemiray/raytrace"
+	"github.com/hemiray/hemiray/raytrace/analysis"
+)
+
+// Outputs are the results of a run to write.
+type Outputs struct {
+	Input *analysis.Input
+	// Traced is the trace (nil when the view factors were given).
+	Traced *analysis.Traced
+	// Analysis is the exchange solve (nil for a trace alone).
+	Analysis *analysis.Result
+	// Pictures writes the PNG pictures and model.vtp too.
+	Pictures bool
+}
+
+// Warnings returns what the user must be told about the results: back-face
+// hits, an incomplete trace, notes of the trace and of the analysis.
+func (o *Outputs) Warnings() []string {
+	var w []string
+	if t := o.Traced; t != nil {
+		w = append(w, t.Result.Warnings(analysis.SurfaceNames(o.Input.Mesh))...)
+		w = append(w, t.Notes...)
+		if !t.Complete && len(t.Notes) == 0 {
+			w = append(w, "the trace is incomplete: not every planned ray was traced, so the intervals are wider than planned (summary.json: complete = false)")
+		}
+	}
+	if o.Analysis != nil {
+		w = append(w, o.Analysis.Notes...)
+	}
+	return w
+}
+
+// Write writes every output file of o into dir and returns their names.
+func Write(dir string, o Outputs) ([]string, error) {
+	var written []string
+	nodes := o.nodes()
+	if t := o.Traced; t != nil {
+		vf, err := writeViewFactors(dir, t.Result)
+		if err != nil {
+			return nil, err
+		}
+		written = append(written, vf...)
+		if len(nodes) <= SquareLimit {
+			if err := writeTallies(dir, t.Result, analysis.SurfaceNames(o.Input.Mesh)); err != nil {
+				return nil, err
+			}
+			written = append(written, TalliesCSV)
+		}
+		written = append(written, analysis.TallyFile)
+	}
+	if a := o.Analysis; a != nil {
+		sm, err := writeSmoothed(dir, a)
+		if err != nil {
+			return nil, err
+		}
+		written = append(written, sm...)
+		if err := writeSurfaces(dir, a); err != nil {
+			return nil, err
+		}
+		written = append(written, "surfaces.csv")
+		if a.S != nil {
+			if err := writeConductances(dir, a); err != nil {
+				return nil, err
+			}
+			written = append(written, "conductances.csv")
+		}
+	}
+	sum, err := newSummary(o.Input, o.Traced, o.Analysis, o.Warnings())
+	if err != nil {
+		return nil, err
+	}
+	if err := writeJSON(filepath.Join(dir, "summary.json"), sum); err != nil {
+		return nil, err
+	}
+	written = append(written, "summary.json")
+	if o.Analysis != nil && o.Pictures {
+		var res *raytrace.Result
+		if o.Traced != nil {
+			res = o.Traced.Result
+		}
+		pics, err := writePictures(dir, o.Input, nodes, res, o.Analysis)
+		if err != nil {
+			return nil, err
+		}
+		written = append(written, pics...)
+	}
+	if len(nodes) > SquareLimit {
+		written = append(written, fmt.Sprintf("(square matrices skipped: %d nodes > %d; the pairs files have every non-zero factor)", len(nodes), SquareLimit))
+	}
+	return written, nil
+}
+
+func (o *Outputs) nodes() []raytrace.Node {
+	if o.Traced != nil {
+		return o.Traced.Result.Nodes
+	}
+	return o.Analysis.Nodes
+}
