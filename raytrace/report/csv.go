@@ -111,4 +111,6 @@ func (l *lineWriter) flush() error {
 
 // WriteFile writes path atomically (a temporary file, then a rename), so a
 // killed run never leaves a truncated file.
-func WriteFile(path string, write func(w io.Writer) error) error { return atomicfile.Write(path, write) }
+func WriteFile(path string, write func(w io.Writer) error) error {
+	return atomicfile.Write(path, write)
+}

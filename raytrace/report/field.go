@@ -69,4 +69,3 @@ func ReadField(dir, colorBy string) (map[string]float64, string, error) {
 	}
 	return nil, "", fmt.Errorf("%w %q: use surface, side, temperature, heat-flux, ambient or vf:NODE", ErrUnknownColoring, colorBy)
 }
-

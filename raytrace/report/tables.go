@@ -61,4 +61,3 @@ func HeatBalance(w io.Writer, a *analysis.Result) {
 	fmt.Fprintf(w, "smoothing: reciprocity error %.2g → %.2g, summation error %.2g → %.2g, largest move %.2g standard errors\n",
 		a.Smoothed.ReciprocityBefore, a.Smoothed.ReciprocityAfter, a.Smoothed.SummationBefore, a.Smoothed.SummationAfter, a.Smoothed.MaxMoved)
 }
-
