@@ -138,8 +138,8 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 // replicate, R ≥ 2 rows), the half-width t·s/√R of the Student-t interval
 // on the mean at the given confidence, with s the sample standard
 // deviation and t the quantile of Student's t with R−1 degrees of freedom
-// (the batch-means interval, e.g. Law, "Simulation Modeling and Analysis",
-// 5th ed., 2015, eq. 4.12).
+// (the t interval for the mean of independent batches; see the package
+// documentation).
 func TInterval(rows [][]float64, confidence float64) []float64 {
 	R := len(rows)
 	t := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(R - 1)}.Quantile(0.5 + confidence/2)
