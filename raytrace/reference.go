@@ -189,6 +189,42 @@ func ReferenceCases() []ReferenceCase {
 			Mesh:   must(join(a, b)),
 		})
 	}
+
+	// Coarse meshes: two facets per flat face. The closed forms hold with no
+	// allowance, and each emitting facet is half its surface, so an emitter
+	// that does not spread its rays uniformly over each facet (from the
+	// centroids, say) misses these values by far more than 4σ.
+	cs = append(cs, ReferenceCase{
+		Name: "parallel squares, coarse", From: "bottom", To: "top",
+		Reference: geometry.FParallelRectangles(1, 1, 1),
+		Source:    "Howell catalogue C-11, parallel opposed rectangles",
+		Why:       "flat rectangles are exact",
+		Mesh: must(join(mesh.Rectangle("bottom", v(0, 0, 0), v(1, 0, 0), v(0, 1, 0), 1, 1),
+			mesh.Rectangle("top", v(0, 0, 1), v(0, 1, 0), v(1, 0, 0), 1, 1))),
+	})
+	cs = append(cs, ReferenceCase{
+		Name: "perpendicular rectangles, coarse", From: "floor", To: "wall",
+		Reference: geometry.FPerpendicularRectangles(1, 0.5, 2),
+		Source:    "Howell catalogue C-14, perpendicular rectangles with a common edge",
+		Why:       "flat rectangles are exact",
+		Mesh: must(join(mesh.Rectangle("floor", v(0, 0, 0), v(1, 0, 0), v(0, 2, 0), 1, 1),
+			mesh.Rectangle("wall", v(0, 0, 0), v(0, 2, 0), v(0, 0, 0.5), 1, 1))),
+	})
+	cube := mesh.Box("", geometry.Box{Max: v(1, 1, 1)}, 1, true)
+	cs = append(cs, ReferenceCase{
+		Name: "closed cube, opposite faces, coarse", From: "zmin", To: "zmax",
+		Reference: geometry.FParallelRectangles(1, 1, 1),
+		Source:    "Howell catalogue C-11, parallel opposed rectangles",
+		Why:       "flat faces are exact; the other walls do not block",
+		Mesh:      cube,
+	})
+	cs = append(cs, ReferenceCase{
+		Name: "closed cube, adjacent faces, coarse", From: "zmin", To: "xmin",
+		Reference: geometry.FPerpendicularRectangles(1, 1, 1),
+		Source:    "Howell catalogue C-14, perpendicular rectangles with a common edge",
+		Why:       "flat faces are exact; the other walls do not block",
+		Mesh:      cube,
+	})
 	return cs
 }
 

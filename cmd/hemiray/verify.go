@@ -20,7 +20,8 @@ func verifyCommand() *command {
 		Short:     "trace published reference configurations and compare",
 		Long: `Verify builds configurations whose view factors are published in closed
 form (parallel and perpendicular rectangles, coaxial disks, concentric
-spheres and cylinders, a sphere and a disk, hinged plates), traces each with
+spheres and cylinders, a sphere and a disk, hinged plates; flat ones also
+meshed coarsely, two facets a face, where the closed form holds exactly), traces each with
 the same engine as trace, and prints a table: the case, the pair, the
 reference value and its source, the estimate and its interval half-width,
 the allowance for the tessellated shapes, and the deviation in standard
