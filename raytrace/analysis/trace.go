@@ -15,7 +15,7 @@ import (
 // Run is how one process traces an input: where its tally file goes and
 // the runtime knobs that cannot change a tally.
 type Run struct {
-	Dir     string // output folder: tallies.bin is written there
+	Dir     string // output folder for tallies.bin; "" writes no tally file
 	Threads int    // default GOMAXPROCS
 	// Shard of Shards traces only that share of the work; Targets are the
 	// rays per node of a planned round (a Plan), nil for the first.
@@ -62,7 +62,7 @@ func (in *Input) Trace(ctx context.Context, run Run) (*Traced, error) {
 	if _, err := os.Stat(path); run.Resume && errors.Is(err, os.ErrNotExist) {
 		// Killed before the first checkpoint, or a scheduler's first attempt.
 		out.Notes = append(out.Notes, fmt.Sprintf("no checkpoint in %s yet; starting from the beginning", run.Dir))
-	} else if run.Resume {
+	} else if run.Resume && run.Dir != "" {
 		ck, old, err := ReadTallies(path)
 		if err != nil {
 			return nil, fmt.Errorf("resume: %w", err)
@@ -76,7 +76,9 @@ func (in *Input) Trace(ctx context.Context, run Run) (*Traced, error) {
 		}
 		opts.Resume = ck
 	}
-	opts.OnCheckpoint = func(ck *raytrace.Checkpoint) error { return WriteTallies(run.Dir, ck, rec) }
+	if run.Dir != "" {
+		opts.OnCheckpoint = func(ck *raytrace.Checkpoint) error { return WriteTallies(run.Dir, ck, rec) }
+	}
 	tctx := ctx
 	if run.TimeLimit > 0 {
 		var cancel context.CancelFunc
@@ -87,9 +89,11 @@ func (in *Input) Trace(ctx context.Context, run Run) (*Traced, error) {
 	if res == nil {
 		return nil, err
 	}
-	ck := res.Checkpoint()
-	if werr := WriteTallies(run.Dir, &ck, rec); werr != nil {
-		return nil, werr
+	if run.Dir != "" {
+		ck := res.Checkpoint()
+		if werr := WriteTallies(run.Dir, &ck, rec); werr != nil {
+			return nil, werr
+		}
 	}
 	out.Result = res
 	switch {
