@@ -6,6 +6,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"os"
 	"path/filepath"
 	"strings"
 
@@ -86,18 +87,26 @@ func finishRun(j *job, t *analysis.Traced, stdout, stderr io.Writer) error {
 func solveCommand() *command {
 	c := &command{
 		Name:      "solve",
-		UsageLine: "solve CASE.toml [-o DIR]",
-		Short:     "smooth and solve again from saved tallies (new conditions, no tracing)",
+		UsageLine: "solve CASE.toml [--viewfactors FILE.csv] [-o DIR]",
+		Short:     "smooth and solve from saved tallies or given view factors (no tracing)",
 		Long: `Solve reads the tallies a previous run or trace of the same case left in
 the output folder (tallies.bin), smooths them and solves the exchange with
 the case's current emissivities and boundary conditions, writing the files
 of run. Change emissivities, temperatures or heat loads and solve again in
 a second instead of tracing again; a change to the geometry, the nodes or
-the ray settings is refused, naming what changed.`,
+the ray settings is refused, naming what changed.
+
+With --viewfactors FILE.csv the factors come from that file instead — from
+a handbook, a hand calculation or another code — in either layout hemiray
+writes: a square matrix (from,NODE,…[,ambient]) or pairs (from,to,F). Every
+node of the case's model needs a row; a column or pair "ambient" makes the
+model open. They are smoothed and solved like traced ones, without
+intervals (the file carries none).`,
 		Flags: flag.NewFlagSet("solve", flag.ContinueOnError),
 	}
 	var tf traceFlags
 	tf.register(c.Flags)
+	given := c.Flags.String("viewfactors", "", "solve with the view factors of this CSV (square or pairs layout, node names as headers) instead of saved tallies")
 	c.Run = func(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 		pos, err := parseArgs(c.Flags, args)
 		if err != nil {
@@ -109,6 +118,9 @@ the ray settings is refused, naming what changed.`,
 		j, err := loadInput(c.Flags, &tf, pos)
 		if err != nil {
 			return err
+		}
+		if *given != "" {
+			return solveGiven(j, *given, stdout, stderr)
 		}
 		ck, old, err := analysis.ReadTallies(j.run.Dir)
 		if err != nil {
@@ -126,4 +138,35 @@ the ray settings is refused, naming what changed.`,
 		return finishRun(j, t, stdout, stderr)
 	}
 	return c
+}
+
+// solveGiven smooths and solves with view factors read from a CSV file.
+func solveGiven(j *job, path string, stdout, stderr io.Writer) error {
+	f, err := openRegular(path)
+	if err != nil {
+		return err
+	}
+	defer f.Close()
+	g, err := analysis.ReadViewFactors(f, path)
+	if err != nil {
+		return err
+	}
+	a, err := j.in.AnalyseFactors(g)
+	if err != nil {
+		return err
+	}
+	return finish(j, report.Outputs{Input: j.in, Analysis: a, Pictures: j.pictures}, stdout, stderr)
+}
+
+// openRegular opens a regular file for reading; a FIFO or a device would
+// block or never end.
+func openRegular(path string) (*os.File, error) {
+	st, err := os.Stat(path)
+	if err != nil {
+		return nil, err
+	}
+	if !st.Mode().IsRegular() {
+		return nil, fmt.Errorf("%s is not a regular file", path)
+	}
+	return os.Open(path)
 }

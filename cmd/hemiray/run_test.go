@@ -190,3 +190,71 @@ func TestRenderCommand(t *testing.T) {
 		t.Errorf("bad colouring: exit %d, %q", code, e)
 	}
 }
+
+// solve --viewfactors with factors given by hand: concentric spheres, whose
+// exact matrix for the facetted shapes is F(inner→outer) = 1,
+// F(outer→inner) = A1/A2, F(outer→outer) = 1 − A1/A2. The heat flow must be
+// the closed form of a two-surface enclosure to round-off (Incropera &
+// DeWitt, Fundamentals of Heat and Mass Transfer, 6th ed., eq. 13.20;
+// from memory), in both file layouts. And the raw matrix a run traced,
+// solved again from its viewfactors.csv, gives the run's own heat flows.
+func TestSolveGivenViewFactors(t *testing.T) {
+	dir := t.TempDir()
+	inner := mesh.Sphere("inner", geometry.Vec3{}, 0.1, 6, false)
+	outer := mesh.Sphere("outer", geometry.Vec3{}, 0.2, 6, true)
+	for name, m := range map[string]*mesh.Mesh{"inner.stl": inner, "outer.stl": outer} {
+		f, _ := os.Create(filepath.Join(dir, name))
+		if err := mesh.WriteSTL(f, m, strings.TrimSuffix(name, ".stl")); err != nil {
+			t.Fatal(err)
+		}
+		f.Close()
+	}
+	cs := filepath.Join(dir, "c.toml")
+	os.WriteFile(cs, []byte("[model]\nfiles = [\"inner.stl\", \"outer.stl\"]\n[rays]\nper_node = 20000\n[surfaces.inner]\nemissivity = 0.3\ntemperature = 700\n[surfaces.outer]\nemissivity = 0.6\ntemperature = 300\n"), 0o644)
+	// Areas as hemiray reads them (binary STL rounds to float32).
+	in, err := openCase(cs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a1, a2 := in.Mesh.Surfaces[0].Area, in.Mesh.Surfaces[1].Area
+	r := strconv.FormatFloat(a1/a2, 'g', -1, 64)
+	files := map[string]string{
+		"square.csv": "from,inner,outer\ninner,0,1\nouter," + r + "," + strconv.FormatFloat(1-a1/a2, 'g', -1, 64) + "\n",
+		"pairs.csv":  "from,to,F\ninner,outer,1\nouter,inner," + r + "\nouter,outer," + strconv.FormatFloat(1-a1/a2, 'g', -1, 64) + "\n",
+	}
+	want := exchange.Sigma * a1 * (math.Pow(700, 4) - math.Pow(300, 4)) / (1/0.3 + a1/a2*(1/0.6-1))
+	for name, text := range files {
+		p := filepath.Join(dir, name)
+		os.WriteFile(p, []byte(text), 0o644)
+		out := filepath.Join(dir, "out-"+name)
+		code, _, e := runCLI("solve", cs, "--viewfactors", p, "--no-pictures", "-o", out)
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s", name, code, e)
+		}
+		s := readSurfaces(t, filepath.Join(out, "surfaces.csv"))
+		if q := val(t, s["inner"]["Q_W"]); math.Abs(q-want) > 1e-9*want || s["inner"]["Q_halfwidth_W"] != "" {
+			t.Errorf("%s: Q(inner) = %v ± %q W, closed form %v W", name, q, s["inner"]["Q_halfwidth_W"], want)
+		}
+	}
+	// A traced run, solved again from its own raw matrix.
+	run := filepath.Join(dir, "run")
+	if code, _, e := runCLI("run", cs, "--quiet", "--no-pictures", "-o", run); code != 0 {
+		t.Fatal(e)
+	}
+	again := filepath.Join(dir, "again")
+	if code, _, e := runCLI("solve", cs, "--viewfactors", filepath.Join(run, "viewfactors.csv"), "--no-pictures", "-o", again); code != 0 {
+		t.Fatal(e)
+	}
+	s1, s2 := readSurfaces(t, filepath.Join(run, "surfaces.csv")), readSurfaces(t, filepath.Join(again, "surfaces.csv"))
+	for _, n := range []string{"inner", "outer"} {
+		if q1, q2 := val(t, s1[n]["Q_W"]), val(t, s2[n]["Q_W"]); math.Abs(q1-q2) > 1e-9*math.Abs(q1) {
+			t.Errorf("%s: Q from tallies %v W, from its viewfactors.csv %v W", n, q1, q2)
+		}
+	}
+	// Names the model does not have are refused.
+	bad := filepath.Join(dir, "bad.csv")
+	os.WriteFile(bad, []byte("from,to,F\ninner,roof,1\n"), 0o644)
+	if code, _, e := runCLI("solve", cs, "--viewfactors", bad, "-o", filepath.Join(dir, "x")); code != 1 || !strings.Contains(e, `"roof"`) {
+		t.Errorf("unknown node: exit %d, %q", code, e)
+	}
+}

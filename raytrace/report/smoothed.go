@@ -2,6 +2,7 @@ package report
 
 import (
 	"io"
+	"math"
 	"path/filepath"
 
 	"github.com/hemiray/hemiray/raytrace/analysis"
@@ -65,7 +66,11 @@ func writeSmoothed(dir string, a *analysis.Result) ([]string, error) {
 			lw.name(to)
 			lw.float(raw)
 			lw.float(sm)
-			lw.float(moved)
+			if math.IsNaN(moved) { // given factors: no standard error
+				lw.sep()
+			} else {
+				lw.float(moved)
+			}
 			return lw.end()
 		}
 		for i, n := range a.Nodes {

@@ -1,6 +1,7 @@
 package report
 
 import (
+	"math"
 	"time"
 
 	"github.com/hemiray/hemiray/raytrace"
@@ -104,7 +105,7 @@ func analysisSummary(a *analysis.Result) map[string]any {
 			"method":             "constrained maximum likelihood (Daun, Morton & Howell 2005)",
 			"reciprocity_before": a.Smoothed.ReciprocityBefore, "reciprocity_after": a.Smoothed.ReciprocityAfter,
 			"summation_before": a.Smoothed.SummationBefore, "summation_after": a.Smoothed.SummationAfter,
-			"max_moved_stderr": a.Smoothed.MaxMoved, "newton_iterations": a.Smoothed.Iterations,
+			"max_moved_stderr": finite(a.Smoothed.MaxMoved), "newton_iterations": a.Smoothed.Iterations,
 		},
 		"ambient_temperature_K": a.AmbientT,
 		"heat_to_ambient_W":     a.Solution.ToAmbient,
@@ -112,4 +113,12 @@ func analysisSummary(a *analysis.Result) map[string]any {
 		"replicates":            a.Replicates,
 		"notes":                 a.Notes,
 	}
+}
+
+// finite returns x, or nil (JSON null) when x is not a finite number.
+func finite(x float64) any {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return nil
+	}
+	return x
 }

@@ -1,6 +1,7 @@
 package report
 
 import (
+	"math"
 	"fmt"
 	"io"
 	"text/tabwriter"
@@ -58,6 +59,10 @@ func HeatBalance(w io.Writer, a *analysis.Result) {
 	if a.Replicates > 0 {
 		fmt.Fprintf(w, "± are %.0f%% t-intervals from %d independent replicates, each smoothed and solved\n", 100*a.Confidence, a.Replicates)
 	}
-	fmt.Fprintf(w, "smoothing: reciprocity error %.2g → %.2g, summation error %.2g → %.2g, largest move %.2g standard errors\n",
-		a.Smoothed.ReciprocityBefore, a.Smoothed.ReciprocityAfter, a.Smoothed.SummationBefore, a.Smoothed.SummationAfter, a.Smoothed.MaxMoved)
+	moved := fmt.Sprintf(", largest move %.2g standard errors", a.Smoothed.MaxMoved)
+	if math.IsNaN(a.Smoothed.MaxMoved) {
+		moved = " (given factors: no standard errors)"
+	}
+	fmt.Fprintf(w, "smoothing: reciprocity error %.2g → %.2g, summation error %.2g → %.2g%s\n",
+		a.Smoothed.ReciprocityBefore, a.Smoothed.ReciprocityAfter, a.Smoothed.SummationBefore, a.Smoothed.SummationAfter, moved)
 }
