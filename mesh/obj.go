@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"strconv"
 
 	"github.com/hemiray/hemiray/geometry"
@@ -197,18 +198,32 @@ func (p *objParser) face(rest []byte) error {
 	if n := len(p.poly); n > 1 && p.poly[0] == p.poly[n-1] {
 		p.poly = p.poly[:n-1]
 	}
-	if len(p.poly) < 3 {
-		return p.errorf("face has %d distinct corners, want at least 3", len(p.poly))
-	}
 	if len(p.poly) > maxPolygon {
 		return p.errorf("face has %d corners; hemiray triangulates polygons of up to %d (export triangles or smaller polygons)", len(p.poly), maxPolygon)
+	}
+	if d := distinctCorners(p.poly); d < 3 {
+		return p.errorf("face has %d distinct corners, want at least 3", d)
 	}
 	if len(p.poly) == 3 {
 		p.b.add(p.poly[0], p.poly[1], p.poly[2], p.line)
 		return nil
 	}
 	for _, t := range p.tri.triangulate(p.b.m.Vertices, p.poly) {
+		if t[0] == t[1] || t[1] == t[2] || t[0] == t[2] {
+			continue // a polygon that revisits a corner: no area, and not a triangle
+		}
 		p.b.add(t[0], t[1], t[2], p.line)
 	}
 	return nil
+}
+
+// distinctCorners counts the different vertex indices of a polygon.
+func distinctCorners(poly []int32) int {
+	n := 0
+	for i, v := range poly {
+		if !slices.Contains(poly[:i], v) {
+			n++
+		}
+	}
+	return n
 }

@@ -137,6 +137,17 @@ func FuzzReadTallyFile(f *testing.F) {
 			sum := sha256.Sum256(data[:len(data)-32])
 			copy(data[len(data)-32:], sum[:])
 		}
-		ReadTallyFile(data)
+		ck, meta, err := ReadTallyFile(data)
+		if err != nil {
+			return
+		}
+		// What reads must write back to the same bytes.
+		var again bytes.Buffer
+		if err := WriteTallyFile(&again, ck, meta); err != nil {
+			t.Fatalf("writing back: %v", err)
+		}
+		if !bytes.Equal(again.Bytes(), data) {
+			t.Fatalf("read %d bytes, wrote back %d different ones", len(data), again.Len())
+		}
 	})
 }
