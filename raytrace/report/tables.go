@@ -1,9 +1,9 @@
 package report
 
 import (
-	"math"
 	"fmt"
 	"io"
+	"math"
 	"text/tabwriter"
 
 	"github.com/hemiray/hemiray/raytrace"
