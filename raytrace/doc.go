@@ -20,7 +20,7 @@
 //	F̂_ij = k_ij / N_i,  standard error √(F̂(1−F̂)/N_i),
 //
 // unbiased, with the binomial variance (Howell, "The Monte Carlo method in
-// radiative heat transfer", J. Heat Transfer 120, 1998; methods.md a1–a2).
+// radiative heat transfer", J. Heat Transfer 120(3), 1998).
 // The interval is Wilson's score interval at the chosen confidence (Wilson,
 // J. Amer. Statist. Assoc. 22, 1927), which keeps its coverage for small
 // counts, including k = 0, where the Wald interval collapses to a point.

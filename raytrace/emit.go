@@ -5,7 +5,7 @@ import (
 	"unsafe"
 
 	"github.com/hemiray/hemiray/geometry"
-	"github.com/hemiray/hemiray/internal/prefetch"
+	"github.com/hemiray/hemiray/raytrace/internal/prefetch"
 	"github.com/hemiray/hemiray/mesh"
 	"github.com/hemiray/hemiray/raytrace/bvh"
 	"github.com/hemiray/hemiray/raytrace/sample"

@@ -198,7 +198,7 @@ func TestCancel(t *testing.T) {
 }
 
 func TestWilson(t *testing.T) {
-	// k = 0: [0, z²/(n + z²)] (methods a2; Brown, Cai & DasGupta 2001).
+	// k = 0: [0, z²/(n + z²)] (Wilson 1927; Brown, Cai & DasGupta, "Interval estimation for a binomial proportion", Statistical Science 16(2), 2001; from memory).
 	lo, hi := Wilson(0, 100, 1.96)
 	if lo != 0 || math.Abs(hi-1.96*1.96/(100+1.96*1.96)) > 1e-15 {
 		t.Errorf("Wilson(0,100) = [%v, %v]", lo, hi)

@@ -3,7 +3,7 @@ package sample
 import (
 	"unsafe"
 
-	"github.com/hemiray/hemiray/internal/prefetch"
+	"github.com/hemiray/hemiray/raytrace/internal/prefetch"
 )
 
 // Alias picks label i with probability w_i/Σw in O(1) (Walker's alias
