@@ -131,16 +131,3 @@ func TestOffsetOriginClearsPlane(t *testing.T) {
 		}
 	}
 }
-
-func TestSlabFlatBox(t *testing.T) {
-	// A zero-thickness box (a flat face) must be hit by rays crossing it.
-	lo, hi := [3]float64{0, 0, 1}, [3]float64{1, 1, 1}
-	o := [3]float64{0.5, 0.5, 0}
-	inv := [3]float64{math.Inf(1), math.Inf(1), 1}
-	if _, ok := Slab(o, inv, lo, hi, 10); !ok {
-		t.Error("axis-parallel ray misses a flat box it crosses")
-	}
-	if _, ok := Slab(o, inv, lo, hi, 0.5); ok {
-		t.Error("ray with tMax before the box hits it")
-	}
-}

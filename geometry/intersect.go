@@ -146,25 +146,3 @@ func away(x, dir float64) float64 {
 	}
 	return x
 }
-
-// Slab tests ray (o, invDir) against box [lo, hi] for overlap with
-// (0, tMax), conservatively: a touching ray is never reported as a miss.
-func Slab(o, invDir, lo, hi [3]float64, tMax float64) (tNear float64, ok bool) {
-	t0, t1 := 0.0, tMax
-	for k := range 3 {
-		tn := (lo[k] - o[k]) * invDir[k]
-		tf := (hi[k] - o[k]) * invDir[k]
-		if tn > tf {
-			tn, tf = tf, tn
-		}
-		tf *= SlabScale
-		// NaN (0·∞ for a ray in the slab's plane) leaves the bounds as they are.
-		if tn > t0 {
-			t0 = tn
-		}
-		if tf < t1 {
-			t1 = tf
-		}
-	}
-	return t0, t0 <= t1
-}

@@ -117,15 +117,15 @@ func Build(v []geometry.Vec3, f [][3]int32, opts Options) *Tree {
 	if len(b.prims) > 0 {
 		// The root, then an unused node, so that every child pair starts at
 		// an even index: 64-byte aligned in the page-aligned array.
-		t.Nodes = make([]Node, 2, len(b.prims)+2)
+		t.nodes = make([]treeNode, 2, len(b.prims)+2)
 		bounds := emptyBox()
 		for i := range b.prims {
 			bounds.grow(&b.prims[i].b)
 		}
-		b.build(&t.Nodes, 0, 0, len(b.prims), 1, bounds)
+		b.build(&t.nodes, 0, 0, len(b.prims), 1, bounds)
 	}
-	if cap(t.Nodes) > len(t.Nodes)+len(t.Nodes)/4 {
-		t.Nodes = append([]Node(nil), t.Nodes...) // give back the spare capacity
+	if cap(t.nodes) > len(t.nodes)+len(t.nodes)/4 {
+		t.nodes = append([]treeNode(nil), t.nodes...) // give back the spare capacity
 	}
 	t.gather(v, f, b.prims)
 	t.Stats.BuildTime = time.Since(start)
@@ -155,7 +155,7 @@ func (t *Tree) gather(v []geometry.Vec3, f [][3]int32, prims []prim) {
 // both children, so each level reads its triangles once to bin them and once
 // to partition them. Bins span the node's bounds rather than its centroids'
 // (which would cost another pass); the centroids lie inside them.
-func (b *builder) build(nodes *[]Node, me, lo, hi, depth int, bounds box) {
+func (b *builder) build(nodes *[]treeNode, me, lo, hi, depth int, bounds box) {
 	ps := b.prims[lo:hi]
 	nd := &(*nodes)[me]
 	for k := range 3 {
@@ -197,7 +197,7 @@ func (b *builder) build(nodes *[]Node, me, lo, hi, depth int, bounds box) {
 	nd.Axis = uint8(axis)
 	base := len(*nodes)
 	nd.Offset = int32(base)
-	*nodes = append(*nodes, Node{}, Node{})
+	*nodes = append(*nodes, treeNode{}, treeNode{})
 
 	if n > parallelSplit && b.buildParallel(nodes, base, lo, mid, hi, depth, &split) {
 		return
@@ -210,13 +210,13 @@ func (b *builder) build(nodes *[]Node, me, lo, hi, depth int, bounds box) {
 // is free, the left one on this goroutine, and splices the right subtree
 // (its root at 0, its pairs from 1) in after the left one. It reports
 // whether it did the work.
-func (b *builder) buildParallel(nodes *[]Node, base, lo, mid, hi, depth int, split *sides) bool {
+func (b *builder) buildParallel(nodes *[]treeNode, base, lo, mid, hi, depth int, split *sides) bool {
 	select {
 	case b.sem <- struct{}{}:
 	default:
 		return false
 	}
-	right := make([]Node, 1, 2*(hi-lo-mid)/3+2)
+	right := make([]treeNode, 1, 2*(hi-lo-mid)/3+2)
 	rb := split.rb
 	var wg sync.WaitGroup
 	wg.Add(1)

@@ -13,15 +13,15 @@ import (
 )
 
 func TestNodeSize(t *testing.T) {
-	if s := unsafe.Sizeof(Node{}); s != 32 {
-		t.Errorf("Node is %d bytes, want 32", s)
+	if s := unsafe.Sizeof(treeNode{}); s != 32 {
+		t.Errorf("treeNode is %d bytes, want 32", s)
 	}
 	if s := unsafe.Sizeof(leafTri{}); s != 40 {
 		t.Errorf("leafTri is %d bytes, want 40", s)
 	}
 	// fetchNode (assembly) reads these fields at fixed offsets.
-	if o, c := unsafe.Offsetof(Node{}.Offset), unsafe.Offsetof(Node{}.Count); o != 24 || c != 28 {
-		t.Errorf("Node.Offset at %d, Count at %d; fetchNode assumes 24 and 28", o, c)
+	if o, c := unsafe.Offsetof(treeNode{}.Offset), unsafe.Offsetof(treeNode{}.Count); o != 24 || c != 28 {
+		t.Errorf("treeNode.Offset at %d, Count at %d; fetchNode assumes 24 and 28", o, c)
 	}
 }
 
@@ -240,12 +240,12 @@ func TestParallelBuildMatchesSerial(t *testing.T) {
 	m := mesh.Sphere("s", geometry.Vec3{}, 1, 60, false) // 43,200 facets > parallelSplit
 	a := Build(m.Vertices, m.Facets, Options{Threads: 1})
 	b := Build(m.Vertices, m.Facets, Options{Threads: 4})
-	if len(a.Nodes) != len(b.Nodes) {
-		t.Fatalf("serial %d nodes, parallel %d", len(a.Nodes), len(b.Nodes))
+	if len(a.nodes) != len(b.nodes) {
+		t.Fatalf("serial %d nodes, parallel %d", len(a.nodes), len(b.nodes))
 	}
-	for i := range a.Nodes {
-		if a.Nodes[i] != b.Nodes[i] {
-			t.Fatalf("node %d differs: %+v vs %+v", i, a.Nodes[i], b.Nodes[i])
+	for i := range a.nodes {
+		if a.nodes[i] != b.nodes[i] {
+			t.Fatalf("node %d differs: %+v vs %+v", i, a.nodes[i], b.nodes[i])
 		}
 	}
 }
@@ -278,5 +278,20 @@ func TestBatchMatchesSingle(t *testing.T) {
 	}
 	if a := testing.AllocsPerRun(10, func() { tree.IntersectBatch(&b, qs, hits) }); a != 0 {
 		t.Errorf("IntersectBatch: %v allocations, want 0", a)
+	}
+}
+
+// A zero-thickness box (a flat face) is hit by rays crossing it, and not by
+// a ray that ends before it (the slab test is conservative, never exact
+// enough to drop a touching box: Ize, "Robust BVH ray traversal", JCGT
+// 2(2), 2013).
+func TestSlabFlatBox(t *testing.T) {
+	n := treeNode{Bounds: [6]float32{0, 0, 1, 1, 1, 1}}
+	r := newRayBox(geometry.Vec3{X: 0.5, Y: 0.5}, geometry.Vec3{Z: 1})
+	if _, ok := r.slab(&n, orderKey(10)); !ok {
+		t.Error("an axis-parallel ray misses a flat box it crosses")
+	}
+	if _, ok := r.slab(&n, orderKey(0.5)); ok {
+		t.Error("a ray ending before the box hits it")
 	}
 }

@@ -6,13 +6,13 @@ import (
 	"github.com/hemiray/hemiray/geometry"
 )
 
-// Node is one node of the flattened tree: 32 bytes, pinned by a test.
+// treeNode is one node of the flattened tree: 32 bytes, pinned by a test.
 //
 //	Bounds    [6]float32  24 bytes: min x, y, z, max x, y, z (exact: vertices are float32)
 //	Offset    int32        inner: index of the first child (the second follows it); leaf: first triangle
 //	Count     uint16       triangles in a leaf, 0 for an inner node
 //	Axis      uint8        split axis of an inner node (0, 1, 2)
-type Node struct {
+type treeNode struct {
 	Bounds [6]float32
 	Offset int32
 	Count  uint16
@@ -44,7 +44,7 @@ func RoundVertex(p geometry.Vec3) geometry.Vec3 {
 
 // Tree is a built BVH. It is read-only after Build and safe for concurrent use.
 type Tree struct {
-	Nodes []Node
+	nodes []treeNode
 	tris  []leafTri
 	Stats Stats
 }
@@ -62,5 +62,5 @@ var Miss = Hit{T: math.Inf(1), Facet: -1}
 
 // Bytes returns the memory the tree holds, in bytes.
 func (t *Tree) Bytes() int {
-	return len(t.Nodes)*32 + len(t.tris)*40
+	return len(t.nodes)*32 + len(t.tris)*40
 }

@@ -5,4 +5,4 @@ package bvh
 // assembly for the layout it assumes.
 //
 //go:noescape
-func fetchNode(n *Node, nodes *Node, tris *leafTri)
+func fetchNode(n *treeNode, nodes *treeNode, tris *leafTri)

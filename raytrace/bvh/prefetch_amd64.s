@@ -1,11 +1,11 @@
 #include "textflag.h"
 
-// func fetchNode(n *Node, nodes *Node, tris *leafTri)
+// func fetchNode(n *treeNode, nodes *treeNode, tris *leafTri)
 //
 // Prefetches what visiting n reads: for an inner node (Count = 0) the
 // 64-byte child pair at nodes[Offset]; for a leaf the first and the last
 // cache line of tris[Offset : Offset+Count] (40-byte triangles). Offsets
-// are those of Node (Offset at 24, Count at 28), pinned by a test.
+// are those of treeNode (Offset at 24, Count at 28), pinned by a test.
 TEXT ·fetchNode(SB), NOSPLIT|NOFRAME, $0-24
 	MOVQ n+0(FP), AX
 	MOVQ nodes+8(FP), BX

@@ -3,4 +3,4 @@
 package bvh
 
 // fetchNode is a no-op where no prefetch instruction is wired in.
-func fetchNode(n *Node, nodes *Node, tris *leafTri) {}
+func fetchNode(n *treeNode, nodes *treeNode, tris *leafTri) {}

@@ -10,9 +10,9 @@ var sinkB bool
 
 func BenchmarkSlab(b *testing.B) {
 	rb := newRayBox(geometry.Vec3{X: 0.1, Y: 0.2, Z: 0.3}, geometry.Vec3{X: 0.3, Y: -0.5, Z: 0.8})
-	nodes := make([]Node, 64)
+	nodes := make([]treeNode, 64)
 	for i := range nodes {
-		nodes[i] = Node{Bounds: [6]float32{float32(i) * 0.01, 0, 0, 1, 1, 1}}
+		nodes[i] = treeNode{Bounds: [6]float32{float32(i) * 0.01, 0, 0, 1, 1, 1}}
 	}
 	for b.Loop() {
 		for i := range nodes {

@@ -17,14 +17,14 @@ type Stats struct {
 
 func (t *Tree) computeStats() {
 	s := &t.Stats
-	s.Triangles, s.Nodes, s.TreeBytes = len(t.tris), len(t.Nodes), t.Bytes()
-	if len(t.Nodes) == 0 {
+	s.Triangles, s.Nodes, s.TreeBytes = len(t.tris), len(t.nodes), t.Bytes()
+	if len(t.nodes) == 0 {
 		return
 	}
-	rootArea := nodeArea(&t.Nodes[0])
+	rootArea := nodeArea(&t.nodes[0])
 	var walk func(i, depth int)
 	walk = func(i, depth int) {
-		n := &t.Nodes[i]
+		n := &t.nodes[i]
 		s.MaxDepth = max(s.MaxDepth, depth)
 		a := 0.0
 		if rootArea > 0 {
@@ -43,7 +43,7 @@ func (t *Tree) computeStats() {
 	walk(0, 1)
 }
 
-func nodeArea(n *Node) float64 {
+func nodeArea(n *treeNode) float64 {
 	dx := float64(n.Bounds[3]) - float64(n.Bounds[0])
 	dy := float64(n.Bounds[4]) - float64(n.Bounds[1])
 	dz := float64(n.Bounds[5]) - float64(n.Bounds[2])
