@@ -5,9 +5,9 @@ import (
 	"unsafe"
 
 	"github.com/hemiray/hemiray/geometry"
-	"github.com/hemiray/hemiray/raytrace/internal/prefetch"
 	"github.com/hemiray/hemiray/mesh"
 	"github.com/hemiray/hemiray/raytrace/bvh"
+	"github.com/hemiray/hemiray/raytrace/internal/prefetch"
 	"github.com/hemiray/hemiray/raytrace/sample"
 )
 
