@@ -3,8 +3,8 @@ package exchange
 import (
 	"errors"
 	"fmt"
+	"github.com/hemiray/hemiray/raytrace/internal/sparse"
 	"math"
-	"sort"
 
 	"gonum.org/v1/gonum/mat"
 )
@@ -211,184 +211,44 @@ func (s *system) solve() ([]float64, bool, error) {
 		}
 		return x.RawVector().Data, true, nil
 	}
-	c := toCSR(s)
-	if c.symmetric() {
-		x, err := c.conjugateGradient(s.rhs)
-		return x, false, err
+	c := sparse.FromTriplets(s.n, s.rows, s.cols, s.vals)
+	if c.Symmetric() {
+		x := make([]float64, s.n)
+		if !sparse.CG(c.Mul, c.Diag, s.rhs, x, iterTol, 20*s.n+1000) {
+			return nil, false, ErrNotConverged
+		}
+		return x, false, nil
 	}
-	x, err := c.gaussSeidel(s.rhs)
+	x, err := gaussSeidel(c, s.rhs)
 	return x, false, err
-}
-
-// csr is a compressed sparse row matrix.
-type csr struct {
-	n     int
-	start []int
-	col   []int
-	val   []float64
-	diag  []float64
-}
-
-func toCSR(s *system) *csr {
-	// Counting sort of the triplets by row, then each row by column, with
-	// duplicates summed.
-	c := &csr{n: s.n, start: make([]int, s.n+1), diag: make([]float64, s.n)}
-	for _, r := range s.rows {
-		c.start[r+1]++
-	}
-	for r := range s.n {
-		c.start[r+1] += c.start[r]
-	}
-	col := make([]int, len(s.rows))
-	val := make([]float64, len(s.rows))
-	next := append([]int(nil), c.start[:s.n]...)
-	for k, r := range s.rows {
-		col[next[r]], val[next[r]] = s.cols[k], s.vals[k]
-		next[r]++
-	}
-	out := 0
-	for r := range s.n {
-		lo, hi := c.start[r], c.start[r+1]
-		seg := rowSegment{col[lo:hi], val[lo:hi]}
-		sort.Sort(seg)
-		c.start[r] = out
-		for k := lo; k < hi; k++ {
-			if out > c.start[r] && col[out-1] == col[k] {
-				val[out-1] += val[k]
-				continue
-			}
-			col[out], val[out] = col[k], val[k]
-			out++
-		}
-	}
-	c.start[s.n] = out
-	c.col, c.val = col[:out], val[:out]
-	for r := range s.n {
-		for k := c.start[r]; k < c.start[r+1]; k++ {
-			if c.col[k] == r {
-				c.diag[r] = c.val[k]
-			}
-		}
-	}
-	return c
-}
-
-// rowSegment sorts one row's columns and values together.
-type rowSegment struct {
-	col []int
-	val []float64
-}
-
-func (r rowSegment) Len() int           { return len(r.col) }
-func (r rowSegment) Less(a, b int) bool { return r.col[a] < r.col[b] }
-func (r rowSegment) Swap(a, b int) {
-	r.col[a], r.col[b] = r.col[b], r.col[a]
-	r.val[a], r.val[b] = r.val[b], r.val[a]
-}
-
-func (c *csr) at(r, cl int) float64 {
-	lo, hi := c.start[r], c.start[r+1]
-	k := lo + sort.SearchInts(c.col[lo:hi], cl)
-	if k < hi && c.col[k] == cl {
-		return c.val[k]
-	}
-	return 0
-}
-
-func (c *csr) symmetric() bool {
-	for r := range c.n {
-		for k := c.start[r]; k < c.start[r+1]; k++ {
-			v, w := c.val[k], c.at(c.col[k], r)
-			if math.Abs(v-w) > 1e-9*math.Max(math.Abs(v), math.Abs(w)) {
-				return false
-			}
-		}
-	}
-	return true
-}
-
-func (c *csr) mul(y, x []float64) {
-	for r := range c.n {
-		s := 0.0
-		for k := c.start[r]; k < c.start[r+1]; k++ {
-			s += c.val[k] * x[c.col[k]]
-		}
-		y[r] = s
-	}
 }
 
 const iterTol = 1e-12
 
-// conjugateGradient solves c·x = b with a Jacobi preconditioner.
-func (c *csr) conjugateGradient(b []float64) ([]float64, error) {
-	n := c.n
-	x, r, z, p, ap := make([]float64, n), append([]float64(nil), b...), make([]float64, n), make([]float64, n), make([]float64, n)
-	bn := math.Sqrt(dot(b, b))
-	if bn == 0 {
-		return x, nil
-	}
-	rz := 0.0
-	for i := range r {
-		z[i] = r[i] / c.diag[i]
-		p[i] = z[i]
-		rz += r[i] * z[i]
-	}
-	for it := 0; it < 20*n+1000; it++ {
-		c.mul(ap, p)
-		a := rz / dot(p, ap)
-		for i := range x {
-			x[i] += a * p[i]
-			r[i] -= a * ap[i]
-		}
-		if math.Sqrt(dot(r, r)) <= iterTol*bn {
-			return x, nil
-		}
-		rzNew := 0.0
-		for i := range r {
-			z[i] = r[i] / c.diag[i]
-			rzNew += r[i] * z[i]
-		}
-		beta := rzNew / rz
-		rz = rzNew
-		for i := range p {
-			p[i] = z[i] + beta*p[i]
-		}
-	}
-	return nil, ErrNotConverged
-}
-
 // gaussSeidel solves c·x = b for a diagonally dominant c.
-func (c *csr) gaussSeidel(b []float64) ([]float64, error) {
-	x := make([]float64, c.n)
-	bn := math.Sqrt(dot(b, b))
-	res := make([]float64, c.n)
+func gaussSeidel(c *sparse.CSR, b []float64) ([]float64, error) {
+	x := make([]float64, c.N)
+	bn := math.Sqrt(sparse.Dot(b, b))
+	res := make([]float64, c.N)
 	for it := 0; it < 100000; it++ {
-		for r := range c.n {
+		for r := range c.N {
 			s := b[r]
-			for k := c.start[r]; k < c.start[r+1]; k++ {
-				if c.col[k] != r {
-					s -= c.val[k] * x[c.col[k]]
+			for k := c.Start[r]; k < c.Start[r+1]; k++ {
+				if c.Col[k] != r {
+					s -= c.Val[k] * x[c.Col[k]]
 				}
 			}
-			x[r] = s / c.diag[r]
+			x[r] = s / c.Diag[r]
 		}
 		if it%10 == 9 {
-			c.mul(res, x)
+			c.Mul(res, x)
 			for i := range res {
 				res[i] -= b[i]
 			}
-			if math.Sqrt(dot(res, res)) <= iterTol*bn {
+			if math.Sqrt(sparse.Dot(res, res)) <= iterTol*bn {
 				return x, nil
 			}
 		}
 	}
 	return nil, ErrNotConverged
-}
-
-func dot(a, b []float64) float64 {
-	s := 0.0
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
 }

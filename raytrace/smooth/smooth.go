@@ -3,6 +3,7 @@ package smooth
 import (
 	"errors"
 	"fmt"
+	"github.com/hemiray/hemiray/raytrace/internal/sparse"
 	"math"
 )
 
@@ -256,7 +257,8 @@ func newton(lam, area []float64, offd []pair, diagC []float64) (int, error) {
 	return maxNewton, ErrNotConverged
 }
 
-// conjugateGradient solves H·x = −g for x.
+// conjugateGradient solves H·x = −g for x (an inexact Newton step is
+// fine: the line search guards it).
 func conjugateGradient(x, g, lam []float64, offd []pair, diagC []float64) {
 	n := len(x)
 	diag := make([]float64, n)
@@ -268,47 +270,9 @@ func conjugateGradient(x, g, lam []float64, offd []pair, diagC []float64) {
 		diag[p.i] += w
 		diag[p.j] += w
 	}
-	r, z, p, hp := make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
-	rz := 0.0
-	for i := range x {
-		x[i] = 0
-		r[i] = -g[i]
-		z[i] = r[i] / diag[i]
-		p[i] = z[i]
-		rz += r[i] * z[i]
+	b := make([]float64, n)
+	for i := range b {
+		b[i] = -g[i]
 	}
-	r0 := math.Sqrt(dot(r, r))
-	for k := 0; k < 10*n+100; k++ {
-		hessMul(hp, p, lam, offd, diagC)
-		php := dot(p, hp)
-		if !(php > 0) {
-			return
-		}
-		a := rz / php
-		for i := range x {
-			x[i] += a * p[i]
-			r[i] -= a * hp[i]
-		}
-		if math.Sqrt(dot(r, r)) <= 1e-15*r0 {
-			return
-		}
-		rzNew := 0.0
-		for i := range r {
-			z[i] = r[i] / diag[i]
-			rzNew += r[i] * z[i]
-		}
-		b := rzNew / rz
-		rz = rzNew
-		for i := range p {
-			p[i] = z[i] + b*p[i]
-		}
-	}
-}
-
-func dot(a, b []float64) float64 {
-	s := 0.0
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
+	sparse.CG(func(y, v []float64) { hessMul(y, v, lam, offd, diagC) }, diag, b, x, 1e-15, 10*n+100)
 }
