@@ -86,7 +86,7 @@ func (r *Result) Factor(i, j int) Factor {
 func (r *Result) Row(i int, fn func(j int, f Factor)) {
 	row := &r.Hits[i]
 	for k, c := range row.Col {
-		fn(int(c), r.factor(row.Count[k], r.Rays[i]))
+		fn(int(c), r.factor(row.Val[k], r.Rays[i]))
 	}
 	if r.Escaped[i] > 0 {
 		fn(r.Ambient(), r.factor(r.Escaped[i], r.Rays[i]))
@@ -134,7 +134,7 @@ func (r *Result) BackFaces(surfaces []string) []BackFaceNote {
 	var out []BackFaceNote
 	for i, row := range r.Back {
 		for k, s := range row.Col {
-			out = append(out, BackFaceNote{r.Nodes[i].Name, surfaces[s], row.Count[k], float64(row.Count[k]) / float64(r.Rays[i])})
+			out = append(out, BackFaceNote{r.Nodes[i].Name, surfaces[s], row.Val[k], float64(row.Val[k]) / float64(r.Rays[i])})
 		}
 	}
 	sort.SliceStable(out, func(a, b int) bool { return out[a].Fraction > out[b].Fraction })

@@ -1,58 +1,15 @@
 package raytrace
 
-import "slices"
+import (
+	"slices"
 
-// Row is a sparse row of integer tallies: Count[k] events in column Col[k],
+	"github.com/hemiray/hemiray/raytrace/internal/sparse"
+)
+
+// Row is a sparse row of integer tallies: Val[k] events in column Col[k],
 // columns increasing. Memory follows the pairs actually hit, which keeps
 // facet-level models of many thousand nodes within reach.
-type Row struct {
-	Col   []int32
-	Count []int64
-}
-
-// At returns the count in column c.
-func (r *Row) At(c int32) int64 {
-	if k, ok := slices.BinarySearch(r.Col, c); ok {
-		return r.Count[k]
-	}
-	return 0
-}
-
-// Sum returns the total count of the row.
-func (r *Row) Sum() int64 {
-	var s int64
-	for _, c := range r.Count {
-		s += c
-	}
-	return s
-}
-
-// Add returns r + o (a new row; neither is changed).
-func (r Row) Add(o Row) Row {
-	if len(o.Col) == 0 {
-		return r
-	}
-	if len(r.Col) == 0 {
-		return o
-	}
-	out := Row{Col: make([]int32, 0, len(r.Col)+len(o.Col)), Count: make([]int64, 0, len(r.Col)+len(o.Col))}
-	i, j := 0, 0
-	for i < len(r.Col) || j < len(o.Col) {
-		switch {
-		case j == len(o.Col) || (i < len(r.Col) && r.Col[i] < o.Col[j]):
-			out.Col, out.Count = append(out.Col, r.Col[i]), append(out.Count, r.Count[i])
-			i++
-		case i == len(r.Col) || o.Col[j] < r.Col[i]:
-			out.Col, out.Count = append(out.Col, o.Col[j]), append(out.Count, o.Count[j])
-			j++
-		default:
-			out.Col, out.Count = append(out.Col, r.Col[i]), append(out.Count, r.Count[i]+o.Count[j])
-			i++
-			j++
-		}
-	}
-	return out
-}
+type Row = sparse.Row[int64]
 
 // Tally is the raw integer outcome of tracing: for each emitting node its
 // rays, its hits on every node, its escapes and its back-face hits on
@@ -96,9 +53,9 @@ func (s *scratch) backHit(surface int32) {
 func (s *scratch) take() (hits, back Row) {
 	drain := func(dense []int64, touched []int32) Row {
 		slices.Sort(touched)
-		r := Row{Col: make([]int32, len(touched)), Count: make([]int64, len(touched))}
+		r := Row{Col: make([]int32, len(touched)), Val: make([]int64, len(touched))}
 		for k, c := range touched {
-			r.Col[k], r.Count[k] = c, dense[c]
+			r.Col[k], r.Val[k] = c, dense[c]
 			dense[c] = 0
 		}
 		return r

@@ -54,7 +54,7 @@ func WriteTallyFile(w io.Writer, ck *Checkpoint, meta []byte) error {
 		put(uint32(len(r.Col)))
 		for k := range r.Col {
 			put(uint32(r.Col[k]))
-			put(r.Count[k])
+			put(r.Val[k])
 		}
 	}
 	for _, t := range append([]Tally{ck.Tally}, ck.Replicas...) {
@@ -152,9 +152,9 @@ func ReadTallyFile(data []byte) (ck *Checkpoint, meta []byte, err error) {
 		if m == 0 {
 			return Row{}
 		}
-		out := Row{Col: make([]int32, m), Count: make([]int64, m)}
+		out := Row{Col: make([]int32, m), Val: make([]int64, m)}
 		for k := range m {
-			out.Col[k], out.Count[k] = int32(r.u32()), r.i64()
+			out.Col[k], out.Val[k] = int32(r.u32()), r.i64()
 		}
 		return out
 	}

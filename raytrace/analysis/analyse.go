@@ -19,7 +19,7 @@ type Result struct {
 	Open bool
 	// Raw is the matrix before smoothing (F per row, columns increasing)
 	// and RawAmbient its ambient column.
-	Raw        [][]exchange.Entry
+	Raw        []exchange.Row
 	RawAmbient []float64
 	Smoothed   *smooth.Result
 	Solution   *exchange.Solution
@@ -65,12 +65,12 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 		return nil, err
 	}
 	a.Notes = append(notes, a.Notes...)
-	a.Raw, a.RawAmbient = make([][]exchange.Entry, len(res.Nodes)), make([]float64, len(res.Nodes))
+	a.Raw, a.RawAmbient = make([]exchange.Row, len(res.Nodes)), make([]float64, len(res.Nodes))
 	for i := range res.Nodes {
 		row := &res.Hits[i]
-		a.Raw[i] = make([]exchange.Entry, len(row.Col))
-		for k, j := range row.Col {
-			a.Raw[i][k] = exchange.Entry{J: j, F: float64(row.Count[k]) / float64(res.Rays[i])}
+		a.Raw[i] = exchange.Row{Col: row.Col, Val: make([]float64, len(row.Col))}
+		for k, n := range row.Val {
+			a.Raw[i].Val[k] = float64(n) / float64(res.Rays[i])
 		}
 		if res.Rays[i] > 0 {
 			a.RawAmbient[i] = float64(res.Escaped[i]) / float64(res.Rays[i])
@@ -81,13 +81,9 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 
 // smoothTally smooths a tally (pooled or a replicate).
 func smoothTally(res *raytrace.Result, t *raytrace.Tally, open bool) (*smooth.Result, error) {
-	c := smooth.Counts{Area: make([]float64, len(res.Nodes)), Rays: t.Rays, Hits: make([][]smooth.Entry, len(res.Nodes))}
+	c := smooth.Counts{Area: make([]float64, len(res.Nodes)), Rays: t.Rays, Hits: t.Hits}
 	for i, n := range res.Nodes {
 		c.Area[i] = n.Area
-		c.Hits[i] = make([]smooth.Entry, len(t.Hits[i].Col))
-		for k, j := range t.Hits[i].Col {
-			c.Hits[i][k] = smooth.Entry{J: j, K: t.Hits[i].Count[k]}
-		}
 	}
 	if open {
 		c.Ambient = t.Escaped

@@ -55,12 +55,13 @@ func sheetInBox(t *testing.T, c *Case) (*Input, []raytrace.Node, *smooth.Result)
 	in := &Input{Case: c, Mesh: m}
 	var nodes []raytrace.Node
 	var sm smooth.Result
+	toBox := smooth.FactorRow{Col: []int32{2}, Val: []float64{1}}
 	if c.Spec("sheet").IsTwoSided() {
 		nodes = []raytrace.Node{{Name: "sheet", Area: 2}, {Name: "sheet.back", Back: true, Area: 2}, {Name: "box", Surface: 1, Area: ab}}
-		sm.F = [][]smooth.Factor{{{J: 2, F: 1}}, {{J: 2, F: 1}}, {{J: 0, F: 2 / ab}, {J: 1, F: 2 / ab}, {J: 2, F: 1 - 4/ab}}}
+		sm.F = []smooth.FactorRow{toBox, toBox, {Col: []int32{0, 1, 2}, Val: []float64{2 / ab, 2 / ab, 1 - 4/ab}}}
 	} else { // facet nodes: the two triangles of 1 m² each
 		nodes = []raytrace.Node{{Name: "sheet#0", Area: 1}, {Name: "sheet#1", Area: 1}, {Name: "box", Surface: 1, Area: ab}}
-		sm.F = [][]smooth.Factor{{{J: 2, F: 1}}, {{J: 2, F: 1}}, {{J: 0, F: 1 / ab}, {J: 1, F: 1 / ab}, {J: 2, F: 1 - 2/ab}}}
+		sm.F = []smooth.FactorRow{toBox, toBox, {Col: []int32{0, 1, 2}, Val: []float64{1 / ab, 1 / ab, 1 - 2/ab}}}
 	}
 	return in, nodes, &sm
 }

@@ -60,7 +60,7 @@ func problem(c *Case, m *mesh.Mesh, nodes []raytrace.Node, sm *smooth.Result, op
 	n := len(nodes)
 	p := exchange.Problem{
 		Area: make([]float64, n), Emissivity: make([]float64, n), Cond: make([]exchange.Condition, n),
-		F: make([][]exchange.Entry, n),
+		F: sm.F,
 	}
 	info := make([]NodeInfo, n)
 	if open {
@@ -73,10 +73,6 @@ func problem(c *Case, m *mesh.Mesh, nodes []raytrace.Node, sm *smooth.Result, op
 	front := make(map[string]int) // front node name → index, to pair the backs
 	for i, nd := range nodes {
 		p.Area[i] = nd.Area
-		p.F[i] = make([]exchange.Entry, len(sm.F[i]))
-		for k, e := range sm.F[i] {
-			p.F[i][k] = exchange.Entry{J: e.J, F: e.F}
-		}
 		surf := m.Surfaces[nd.Surface].Name
 		eps, err := c.emissivity(surf, nd)
 		if err != nil {

@@ -116,4 +116,3 @@ func WriteDemo(dir string) (string, error) {
 	}
 	return filepath.Join(dir, "case.toml"), nil
 }
-

@@ -127,9 +127,10 @@ func (in *Input) AnalyseFactors(given []Given) (*Result, error) {
 		index[n.Name] = int32(i)
 	}
 	n := len(nodes)
-	raw := make([][]exchange.Entry, n)
+	raw := make([]exchange.Row, n)
 	rawAmb := make([]float64, n)
 	seen := make([]bool, n)
+	entries := make([][][2]float64, n) // (column, F) as read
 	open := false
 	for _, g := range given {
 		i, ok := index[g.From]
@@ -147,7 +148,7 @@ func (in *Input) AnalyseFactors(given []Given) (*Result, error) {
 			return nil, fmt.Errorf("the view factors name a node %q the model does not have (its nodes: %s)", g.To, nodeList(nodes))
 		}
 		if g.F > 0 {
-			raw[i] = append(raw[i], exchange.Entry{J: j, F: g.F})
+			entries[i] = append(entries[i], [2]float64{float64(j), g.F})
 		}
 	}
 	for i, ok := range seen {
@@ -155,21 +156,21 @@ func (in *Input) AnalyseFactors(given []Given) (*Result, error) {
 			return nil, fmt.Errorf("the view factors have no row for node %s", nodes[i].Name)
 		}
 	}
-	c := smooth.Counts{Area: make([]float64, n), Rays: make([]int64, n), Hits: make([][]smooth.Entry, n)}
+	c := smooth.Counts{Area: make([]float64, n), Rays: make([]int64, n), Hits: make([]smooth.CountRow, n)}
 	if open {
 		c.Ambient = make([]int64, n)
 	}
 	for i := range nodes {
-		slices.SortFunc(raw[i], func(a, b exchange.Entry) int { return int(a.J) - int(b.J) })
-		for k := 1; k < len(raw[i]); k++ {
-			if raw[i][k].J == raw[i][k-1].J {
-				return nil, fmt.Errorf("the view factor from %s to %s is given twice", nodes[i].Name, nodes[raw[i][k].J].Name)
+		e := entries[i]
+		slices.SortFunc(e, func(a, b [2]float64) int { return int(a[0]) - int(b[0]) })
+		for k := range e {
+			if k > 0 && e[k][0] == e[k-1][0] {
+				return nil, fmt.Errorf("the view factor from %s to %s is given twice", nodes[i].Name, nodes[int(e[k][0])].Name)
 			}
+			raw[i].Append(int32(e[k][0]), e[k][1])
+			c.Hits[i].Append(int32(e[k][0]), int64(math.Round(e[k][1]*givenScale)))
 		}
 		c.Area[i], c.Rays[i] = nodes[i].Area, givenScale
-		for _, e := range raw[i] {
-			c.Hits[i] = append(c.Hits[i], smooth.Entry{J: e.J, K: int64(math.Round(e.F * givenScale))})
-		}
 		if open {
 			c.Ambient[i] = int64(math.Round(rawAmb[i] * givenScale))
 		}
@@ -178,9 +179,9 @@ func (in *Input) AnalyseFactors(given []Given) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	for i := range sm.F {
-		for k := range sm.F[i] {
-			sm.F[i][k].Moved = math.NaN()
+	for i := range sm.Moved {
+		for k := range sm.Moved[i] {
+			sm.Moved[i][k] = math.NaN()
 		}
 	}
 	for i := range sm.MovedAmbient {

@@ -13,7 +13,7 @@ func ExampleSolve() {
 		Area:       []float64{1, 1},
 		Emissivity: []float64{0.8, 0.5},
 		Cond:       []exchange.Condition{{Kind: exchange.HeatFlux, Value: 1000}, {Kind: exchange.Temperature, Value: 300}},
-		F:          [][]exchange.Entry{{{J: 1, F: 1}}, {{J: 0, F: 1}}},
+		F:          []exchange.Row{{Col: []int32{1}, Val: []float64{1}}, {Col: []int32{0}, Val: []float64{1}}},
 	}
 	sol, err := exchange.Solve(p)
 	if err != nil {

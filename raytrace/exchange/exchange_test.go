@@ -21,7 +21,7 @@ func twoSurface(a1, a2, e1, e2, t1, t2 float64) Problem {
 	return Problem{
 		Area: []float64{a1, a2}, Emissivity: []float64{e1, e2},
 		Cond: []Condition{{Temperature, t1}, {Temperature, t2}},
-		F:    [][]Entry{{{1, 1}}, {{0, a1 / a2}, {1, 1 - a1/a2}}},
+		F:    []Row{rowOf(1, 1), rowOf(0, a1/a2, 1, 1-a1/a2)},
 	}
 }
 
@@ -75,7 +75,7 @@ func TestRadiationShield(t *testing.T) {
 		Area:       []float64{1, 1, 1, 1},
 		Emissivity: []float64{e1, e3a, e3b, e2},
 		Cond:       []Condition{{Temperature, t1}, {}, {}, {Temperature, t2}},
-		F:          [][]Entry{{{1, 1}}, {{0, 1}}, {{3, 1}}, {{2, 1}}},
+		F:          []Row{rowOf(1, 1), rowOf(0, 1), rowOf(3, 1), rowOf(2, 1)},
 		Groups:     [][]int{{1, 2}},
 		GroupCond:  []Condition{{Adiabatic, 0}},
 	}
@@ -111,12 +111,11 @@ func TestRadiationShield(t *testing.T) {
 func TestReradiatingThreeSurface(t *testing.T) {
 	const t1, t2 = 1000, 500
 	e1, e2 := 0.8, 0.4
-	half := []Entry{{0, 0.5}, {1, 0.5}, {2, 0.5}}
-	row := func(i int) []Entry {
-		var r []Entry
-		for _, e := range half {
-			if int(e.J) != i {
-				r = append(r, e)
+	row := func(i int) Row { // F = 1/2 to each of the other two walls
+		var r Row
+		for j := range int32(3) {
+			if int(j) != i {
+				r.Append(j, 0.5)
 			}
 		}
 		return r
@@ -124,7 +123,7 @@ func TestReradiatingThreeSurface(t *testing.T) {
 	p := Problem{
 		Area: []float64{1, 1, 1}, Emissivity: []float64{e1, e2, 0.5},
 		Cond: []Condition{{Temperature, t1}, {Temperature, t2}, {Adiabatic, 0}},
-		F:    [][]Entry{row(0), row(1), row(2)},
+		F:    []Row{row(0), row(1), row(2)},
 	}
 	sol, err := Solve(p)
 	if err != nil {
@@ -166,7 +165,7 @@ func TestFixedFluxUnknownTemperature(t *testing.T) {
 	p := Problem{
 		Area: []float64{1, 1}, Emissivity: []float64{e1, e2},
 		Cond: []Condition{{HeatFlux, q1}, {Temperature, t2}},
-		F:    [][]Entry{{{1, 1}}, {{0, 1}}},
+		F:    []Row{rowOf(1, 1), rowOf(0, 1)},
 	}
 	sol, err := Solve(p)
 	if err != nil {
@@ -181,7 +180,7 @@ func TestAmbient(t *testing.T) {
 	p := Problem{
 		Area: []float64{2}, Emissivity: []float64{0.35},
 		Cond:    []Condition{{Temperature, 450}},
-		F:       [][]Entry{nil},
+		F:       []Row{{}},
 		Ambient: []float64{1}, AmbientT: 290,
 	}
 	sol, err := Solve(p)
@@ -204,7 +203,7 @@ func TestErrors(t *testing.T) {
 	closed := Problem{
 		Area: []float64{1, 1}, Emissivity: []float64{0.5, 0.5},
 		Cond: []Condition{{HeatFlux, 10}, {Adiabatic, 0}},
-		F:    [][]Entry{{{1, 1}}, {{0, 1}}},
+		F:    []Row{rowOf(1, 1), rowOf(0, 1)},
 	}
 	if _, err := Solve(closed); err != ErrNoTemperature {
 		t.Errorf("closed enclosure without temperatures: %v, want ErrNoTemperature", err)
@@ -217,7 +216,7 @@ func TestErrors(t *testing.T) {
 	imp := Problem{
 		Area: []float64{1, 1}, Emissivity: []float64{0.5, 0.5},
 		Cond: []Condition{{HeatFlux, -1e6}, {Temperature, 300}},
-		F:    [][]Entry{{{1, 1}}, {{0, 1}}},
+		F:    []Row{rowOf(1, 1), rowOf(0, 1)},
 	}
 	if _, err := Solve(imp); err == nil {
 		t.Error("impossible flux accepted")
@@ -229,7 +228,7 @@ func TestErrors(t *testing.T) {
 func TestSparseMatchesDense(t *testing.T) {
 	// A ring of strips, each seeing its two neighbours and the ambient.
 	const n = 400
-	p := Problem{Area: make([]float64, n), Emissivity: make([]float64, n), Cond: make([]Condition, n), F: make([][]Entry, n), Ambient: make([]float64, n), AmbientT: 280}
+	p := Problem{Area: make([]float64, n), Emissivity: make([]float64, n), Cond: make([]Condition, n), F: make([]Row, n), Ambient: make([]float64, n), AmbientT: 280}
 	for i := range n {
 		p.Area[i] = 1
 		p.Emissivity[i] = 0.3 + 0.6*float64(i%7)/7
@@ -241,7 +240,7 @@ func TestSparseMatchesDense(t *testing.T) {
 		if a > b {
 			a, b = b, a
 		}
-		p.F[i] = []Entry{{int32(a), 0.3}, {int32(b), 0.3}}
+		p.F[i] = rowOf(float64(a), 0.3, float64(b), 0.3)
 		p.Ambient[i] = 0.4
 	}
 	dense, err := Solve(p)
@@ -270,7 +269,7 @@ func TestSparseMatchesDense(t *testing.T) {
 // BenchmarkSolve solves dense (300 nodes) and sparse (20,000 nodes) rings.
 func BenchmarkSolve(b *testing.B) {
 	for _, n := range []int{300, 20000} {
-		p := Problem{Area: make([]float64, n), Emissivity: make([]float64, n), Cond: make([]Condition, n), F: make([][]Entry, n), Ambient: make([]float64, n), AmbientT: 280}
+		p := Problem{Area: make([]float64, n), Emissivity: make([]float64, n), Cond: make([]Condition, n), F: make([]Row, n), Ambient: make([]float64, n), AmbientT: 280}
 		for i := range n {
 			p.Area[i], p.Emissivity[i], p.Cond[i] = 1, 0.5, Condition{Adiabatic, 0}
 			if i%10 == 0 {
@@ -280,7 +279,7 @@ func BenchmarkSolve(b *testing.B) {
 			if a > c {
 				a, c = c, a
 			}
-			p.F[i] = []Entry{{int32(a), 0.3}, {int32(c), 0.3}}
+			p.F[i] = rowOf(float64(a), 0.3, float64(c), 0.3)
 			p.Ambient[i] = 0.4
 		}
 		b.Run(fmt.Sprint(n), func(b *testing.B) {
@@ -291,4 +290,13 @@ func BenchmarkSolve(b *testing.B) {
 			}
 		})
 	}
+}
+
+// rowOf builds a row from (column, F) pairs given in increasing columns.
+func rowOf(pairs ...float64) Row {
+	var r Row
+	for k := 0; k < len(pairs); k += 2 {
+		r.Append(int32(pairs[k]), pairs[k+1])
+	}
+	return r
 }

@@ -12,8 +12,16 @@ import (
 // are Gebhart's absorption factors B = (I − F R)⁻¹ [F E | F_amb]. Multiply
 // by Sigma for radiative conductances in W/K⁴. Dense: at most DenseLimit
 // nodes.
-func ExchangeAreas(area, eps []float64, F [][]Entry, ambient []float64) (S [][]float64, toAmbient []float64, err error) {
+func ExchangeAreas(area, eps []float64, F []Row, ambient []float64) (S [][]float64, toAmbient []float64, err error) {
 	n := len(area)
+	if len(eps) != n || len(F) != n || (ambient != nil && len(ambient) != n) {
+		return nil, nil, fmt.Errorf("exchange: %d areas, %d emissivities, %d rows of F", n, len(eps), len(F))
+	}
+	for i := range F {
+		if !F[i].Increasing(n) {
+			return nil, nil, fmt.Errorf("exchange: row %d of F: columns must increase within [0, %d), one value each", i, n)
+		}
+	}
 	if n > DenseLimit {
 		return nil, nil, fmt.Errorf("exchange: exchange factors of %d nodes need a dense %d² solve; the limit is %d", n, n, DenseLimit)
 	}
@@ -21,10 +29,10 @@ func ExchangeAreas(area, eps []float64, F [][]Entry, ambient []float64) (S [][]f
 	rhs := mat.NewDense(n, n+1, nil)
 	for i := range n {
 		m.Set(i, i, 1)
-		for _, e := range F[i] {
-			j := int(e.J)
-			m.Set(i, j, m.At(i, j)-e.F*(1-eps[j]))
-			rhs.Set(i, j, e.F*eps[j])
+		for k, c := range F[i].Col {
+			j, f := int(c), F[i].Val[k]
+			m.Set(i, j, m.At(i, j)-f*(1-eps[j]))
+			rhs.Set(i, j, f*eps[j])
 		}
 		if ambient != nil {
 			rhs.Set(i, n, ambient[i])

@@ -3,6 +3,7 @@ package exchange
 import (
 	"errors"
 	"fmt"
+	"github.com/hemiray/hemiray/raytrace/internal/sparse"
 	"math"
 )
 
@@ -31,11 +32,9 @@ type Condition struct {
 	Value float64
 }
 
-// Entry is F in column J of a sparse row.
-type Entry struct {
-	J int32
-	F float64
-}
+// Row is a sparse row of view factors: F = Val[k] in column Col[k],
+// columns increasing (the sparse row type the tallies and smoothing use too).
+type Row = sparse.Row[float64]
 
 // Problem is an enclosure to solve. F rows are sparse with columns
 // increasing; Ambient[k] is F_k,amb (nil for a closed model).
@@ -43,7 +42,7 @@ type Problem struct {
 	Area       []float64 // m²
 	Emissivity []float64 // in (0, 1]
 	Cond       []Condition
-	F          [][]Entry
+	F          []Row
 	Ambient    []float64
 	AmbientT   float64 // K
 	// Groups lists sets of nodes that share one temperature; GroupCond is
@@ -102,6 +101,9 @@ func (p *Problem) check() ([]int, error) {
 		}
 		if e := p.Emissivity[k]; !(e > 0 && e <= 1) {
 			return nil, fmt.Errorf("exchange: node %d: emissivity %v is outside (0, 1]", k, e)
+		}
+		if !p.F[k].Increasing(n) {
+			return nil, fmt.Errorf("exchange: row %d of F: columns must increase within [0, %d), one value each", k, n)
 		}
 		c := p.Cond[k]
 		if g := group[k]; g >= 0 {

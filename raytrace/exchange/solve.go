@@ -85,11 +85,12 @@ func Solve(p Problem) (*Solution, error) {
 	s := &system{n: nv, rhs: make([]float64, nv)}
 	// irradiation adds row r's terms −a·Σ_j F_kj J_j + (RHS) a·F_amb·σT_amb⁴.
 	irradiation := func(r, k int, a float64) {
-		for _, e := range p.F[k] {
-			if v := varJ[e.J]; v >= 0 {
-				s.add(r, v, -a*e.F)
+		for i, j := range p.F[k].Col {
+			f := p.F[k].Val[i]
+			if v := varJ[j]; v >= 0 {
+				s.add(r, v, -a*f)
 			} else {
-				s.rhs[r] += a * e.F * knownJ[e.J]
+				s.rhs[r] += a * f * knownJ[j]
 			}
 		}
 		s.rhs[r] += a * fAmb(k) * ambE
@@ -156,8 +157,8 @@ func Solve(p Problem) (*Solution, error) {
 	}
 	for k := range n {
 		gk := fAmb(k) * ambE
-		for _, e := range p.F[k] {
-			gk += e.F * sol.J[e.J]
+		for i, j := range p.F[k].Col {
+			gk += p.F[k].Val[i] * sol.J[j]
 		}
 		sol.q[k] = sol.J[k] - gk
 		sol.Q[k] = p.Area[k] * sol.q[k]

@@ -26,8 +26,9 @@ func nodeColumns(a *analysis.Result) []string {
 // when open) and returns it.
 func smoothedRow(a *analysis.Result, i int, dense []float64) []float64 {
 	clear(dense)
-	for _, e := range a.Smoothed.F[i] {
-		dense[e.J] = e.F
+	row := &a.Smoothed.F[i]
+	for k, j := range row.Col {
+		dense[j] = row.Val[k]
 	}
 	if a.Open {
 		dense[len(a.Nodes)] = a.Smoothed.Ambient[i]
@@ -74,17 +75,17 @@ func writeSmoothed(dir string, a *analysis.Result) ([]string, error) {
 			return lw.end()
 		}
 		for i, n := range a.Nodes {
-			raw := a.Raw[i]
+			raw, sm := &a.Raw[i], &a.Smoothed.F[i]
 			k := 0 // both rows have increasing columns: walk them together
-			for _, e := range a.Smoothed.F[i] {
-				for k < len(raw) && raw[k].J < e.J {
+			for m, j := range sm.Col {
+				for k < len(raw.Col) && raw.Col[k] < j {
 					k++
 				}
 				r := 0.0
-				if k < len(raw) && raw[k].J == e.J {
-					r = raw[k].F
+				if k < len(raw.Col) && raw.Col[k] == j {
+					r = raw.Val[k]
 				}
-				if err := row(n.Name, cols[e.J], r, e.F, e.Moved); err != nil {
+				if err := row(n.Name, cols[j], r, sm.Val[m], a.Smoothed.Moved[i][m]); err != nil {
 					return err
 				}
 			}

@@ -26,13 +26,13 @@ func writeTallies(dir string, res *raytrace.Result, surfaces []string) error {
 			for i, n := range res.Nodes {
 				emit(rep, n.Name, "rays", fmt.Sprint(t.Rays[i]))
 				for k, j := range t.Hits[i].Col {
-					emit(rep, n.Name, res.Nodes[j].Name, fmt.Sprint(t.Hits[i].Count[k]))
+					emit(rep, n.Name, res.Nodes[j].Name, fmt.Sprint(t.Hits[i].Val[k]))
 				}
 				if t.Escaped[i] > 0 {
 					emit(rep, n.Name, "ambient", fmt.Sprint(t.Escaped[i]))
 				}
 				for k, s := range t.Back[i].Col {
-					emit(rep, n.Name, "backface:"+surfaces[s], fmt.Sprint(t.Back[i].Count[k]))
+					emit(rep, n.Name, "backface:"+surfaces[s], fmt.Sprint(t.Back[i].Val[k]))
 				}
 			}
 		}

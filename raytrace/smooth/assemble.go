@@ -1,15 +1,12 @@
 package smooth
 
-import (
-	"math"
-	"sort"
-)
+import "math"
 
 // assemble builds the smoothed rows from λ and measures the change. tr is
 // the transpose of the counts (see transpose).
-func assemble(in Counts, tr [][]Entry, lam []float64, iters int) *Result {
+func assemble(in Counts, tr []CountRow, lam []float64, iters int) *Result {
 	n := len(in.Area)
-	res := &Result{F: make([][]Factor, n), Ambient: make([]float64, n), MovedAmbient: make([]float64, n), Iterations: iters}
+	res := &Result{F: make([]FactorRow, n), Moved: make([][]float64, n), Ambient: make([]float64, n), MovedAmbient: make([]float64, n), Iterations: iters}
 	raw := func(i int, k int64) float64 { return float64(k) / float64(in.Rays[i]) }
 	se := func(i int, f float64) float64 { return math.Sqrt(f * (1 - f) / float64(in.Rays[i])) }
 	moved := func(i int, rawF, newF float64) float64 {
@@ -27,8 +24,8 @@ func assemble(in Counts, tr [][]Entry, lam []float64, iters int) *Result {
 	// Largest raw and smoothed exchange areas, to scale reciprocity errors.
 	maxRaw, maxNew := 0.0, 0.0
 	for i := range n {
-		for _, e := range in.Hits[i] {
-			maxRaw = math.Max(maxRaw, in.Area[i]*raw(i, e.K))
+		for _, k := range in.Hits[i].Val {
+			maxRaw = math.Max(maxRaw, in.Area[i]*raw(i, k))
 		}
 	}
 	for i := range n {
@@ -38,8 +35,10 @@ func assemble(in Counts, tr [][]Entry, lam []float64, iters int) *Result {
 		}
 		// Columns are the union of row i and column i: smoothing shares each
 		// pair's counts between both directions.
-		res.F[i] = make([]Factor, 0, len(in.Hits[i])+len(tr[i]))
-		mergeRows(in.Hits[i], tr[i], func(j int32, kij, kji int64) {
+		size := in.Hits[i].Len() + tr[i].Len()
+		res.F[i] = FactorRow{Col: make([]int32, 0, size), Val: make([]float64, 0, size)}
+		res.Moved[i] = make([]float64, 0, size)
+		mergeRows(&in.Hits[i], &tr[i], func(j int32, kij, kji int64) {
 			var s float64
 			if int(j) == i {
 				s = float64(kij) / lam[i]
@@ -50,7 +49,8 @@ func assemble(in Counts, tr [][]Entry, lam []float64, iters int) *Result {
 			maxNew = math.Max(maxNew, s)
 			m := moved(i, raw(i, kij), f)
 			res.MaxMoved = math.Max(res.MaxMoved, math.Abs(m))
-			res.F[i] = append(res.F[i], Factor{J: j, F: f, Moved: m})
+			res.F[i].Append(j, f)
+			res.Moved[i] = append(res.Moved[i], m)
 			rawSum += raw(i, kij)
 			newSum += f
 			back := raw(int(j), kji)
@@ -65,13 +65,9 @@ func assemble(in Counts, tr [][]Entry, lam []float64, iters int) *Result {
 		res.SummationAfter = math.Max(res.SummationAfter, math.Abs(1-newSum-res.Ambient[i]))
 	}
 	for i := range n {
-		for _, e := range res.F[i] {
-			back := 0.0
-			row := res.F[e.J]
-			if k := sort.Search(len(row), func(k int) bool { return row[k].J >= int32(i) }); k < len(row) && int(row[k].J) == i {
-				back = row[k].F
-			}
-			res.ReciprocityAfter = math.Max(res.ReciprocityAfter, math.Abs(in.Area[i]*e.F-in.Area[e.J]*back)/maxNew)
+		for k, j := range res.F[i].Col {
+			back := res.F[j].At(int32(i))
+			res.ReciprocityAfter = math.Max(res.ReciprocityAfter, math.Abs(in.Area[i]*res.F[i].Val[k]-in.Area[j]*back)/maxNew)
 		}
 	}
 	return res

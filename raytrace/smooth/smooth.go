@@ -7,11 +7,12 @@ import (
 	"math"
 )
 
-// Entry is a count k in column J of a row.
-type Entry struct {
-	J int32
-	K int64
-}
+// CountRow is a row of counts (columns increasing); FactorRow a row of view
+// factors. Both are the one sparse row type of the tallies and the solver.
+type (
+	CountRow  = sparse.Row[int64]
+	FactorRow = sparse.Row[float64]
+)
 
 // Counts are the raw tallies of a trace: Rays[i] rays from node i, Hits[i]
 // its hits by target node (columns increasing), Ambient[i] the rays that left
@@ -19,22 +20,17 @@ type Entry struct {
 type Counts struct {
 	Area    []float64
 	Rays    []int64
-	Hits    [][]Entry
+	Hits    []CountRow
 	Ambient []int64
-}
-
-// Factor is a smoothed view factor with the distance it moved from the raw
-// estimate, in standard errors of the raw estimate.
-type Factor struct {
-	J     int32
-	F     float64
-	Moved float64
 }
 
 // Result is a smoothed matrix and its diagnostics.
 type Result struct {
-	F       [][]Factor // per row, columns increasing, zero pairs omitted
-	Ambient []float64  // F_i,amb
+	F []FactorRow // per row, columns increasing, zero pairs omitted
+	// Moved[i][k] is how far F[i].Val[k] moved from the raw estimate, in
+	// standard errors of the raw estimate.
+	Moved   [][]float64
+	Ambient []float64 // F_i,amb
 	// MovedAmbient is how far F_i,amb moved, in standard errors.
 	MovedAmbient []float64
 	// Reciprocity is max |A_i F_ij − A_j F_ji| / max A_i F_ij; Summation is
@@ -70,23 +66,17 @@ func Smooth(in Counts) (*Result, error) {
 		if !(in.Area[i] > 0) || in.Rays[i] <= 0 {
 			return nil, fmt.Errorf("smooth: node %d has area %v and %d rays; both must be positive", i, in.Area[i], in.Rays[i])
 		}
-		var hits int64
-		for _, e := range in.Hits[i] {
-			hits += e.K
-		}
-		if hits == 0 && amb(i) == 0 {
+		if in.Hits[i].Sum() == 0 && amb(i) == 0 {
 			return nil, fmt.Errorf("smooth: node %d has no ray that reached a node or the ambient", i)
 		}
 	}
 	for i := range n {
-		for k := 1; k < len(in.Hits[i]); k++ {
-			if in.Hits[i][k].J <= in.Hits[i][k-1].J {
-				return nil, fmt.Errorf("smooth: the columns of row %d are not increasing", i)
-			}
+		if !in.Hits[i].Increasing(n) {
+			return nil, fmt.Errorf("smooth: the columns of row %d are not increasing within [0, %d)", i, n)
 		}
-		for _, e := range in.Hits[i] {
-			if e.J < 0 || int(e.J) >= n || e.K < 0 {
-				return nil, fmt.Errorf("smooth: row %d has an entry %+v out of range", i, e)
+		for _, k := range in.Hits[i].Val {
+			if k < 0 {
+				return nil, fmt.Errorf("smooth: row %d has a negative count %d", i, k)
 			}
 		}
 	}
@@ -98,7 +88,7 @@ func Smooth(in Counts) (*Result, error) {
 	diagC := make([]float64, n) // k_ii + k_i,amb
 	for i := range n {
 		diagC[i] = amb(i)
-		mergeRows(in.Hits[i], tr[i], func(j int32, kij, kji int64) {
+		mergeRows(&in.Hits[i], &tr[i], func(j int32, kij, kji int64) {
 			switch {
 			case int(j) == i:
 				diagC[i] += float64(kij)
@@ -120,39 +110,39 @@ func Smooth(in Counts) (*Result, error) {
 
 // transpose returns the rows of the transposed count matrix (columns
 // increasing, as the rows were built in order).
-func transpose(rows [][]Entry) [][]Entry {
-	t := make([][]Entry, len(rows))
+func transpose(rows []CountRow) []CountRow {
+	t := make([]CountRow, len(rows))
 	count := make([]int, len(rows))
 	for _, row := range rows {
-		for _, e := range row {
-			count[e.J]++
+		for _, j := range row.Col {
+			count[j]++
 		}
 	}
 	for j := range t {
-		t[j] = make([]Entry, 0, count[j])
+		t[j] = CountRow{Col: make([]int32, 0, count[j]), Val: make([]int64, 0, count[j])}
 	}
 	for i, row := range rows {
-		for _, e := range row {
-			t[e.J] = append(t[e.J], Entry{int32(i), e.K})
+		for k, j := range row.Col {
+			t[j].Append(int32(i), row.Val[k])
 		}
 	}
 	return t
 }
 
-// mergeRows calls fn for every column present in row a or b (both sorted),
-// with the counts of each (0 where absent), columns increasing.
-func mergeRows(a, b []Entry, fn func(j int32, ka, kb int64)) {
+// mergeRows calls fn for every column present in row a or b, with the
+// counts of each (0 where absent), columns increasing.
+func mergeRows(a, b *CountRow, fn func(j int32, ka, kb int64)) {
 	x, y := 0, 0
-	for x < len(a) || y < len(b) {
+	for x < len(a.Col) || y < len(b.Col) {
 		switch {
-		case y == len(b) || (x < len(a) && a[x].J < b[y].J):
-			fn(a[x].J, a[x].K, 0)
+		case y == len(b.Col) || (x < len(a.Col) && a.Col[x] < b.Col[y]):
+			fn(a.Col[x], a.Val[x], 0)
 			x++
-		case x == len(a) || b[y].J < a[x].J:
-			fn(b[y].J, 0, b[y].K)
+		case x == len(a.Col) || b.Col[y] < a.Col[x]:
+			fn(b.Col[y], 0, b.Val[y])
 			y++
 		default:
-			fn(a[x].J, a[x].K, b[y].K)
+			fn(a.Col[x], a.Val[x], b.Val[y])
 			x++
 			y++
 		}

@@ -32,7 +32,7 @@ func cube() (area []float64, F [][]float64) {
 
 // sampleCounts draws multinomial counts of n rays per row.
 func sampleCounts(rng *rand.Rand, area []float64, F [][]float64, amb []float64, n int64) Counts {
-	c := Counts{Area: area, Rays: make([]int64, len(F)), Hits: make([][]Entry, len(F))}
+	c := Counts{Area: area, Rays: make([]int64, len(F)), Hits: make([]CountRow, len(F))}
 	if amb != nil {
 		c.Ambient = make([]int64, len(F))
 	}
@@ -49,7 +49,7 @@ func sampleCounts(rng *rand.Rand, area []float64, F [][]float64, amb []float64, 
 		}
 		for j := range F {
 			if k[j] > 0 {
-				c.Hits[i] = append(c.Hits[i], Entry{int32(j), k[j]})
+				c.Hits[i].Append(int32(j), k[j])
 			}
 		}
 		if amb != nil {
@@ -63,8 +63,8 @@ func dense(r *Result, n int) [][]float64 {
 	F := make([][]float64, n)
 	for i := range F {
 		F[i] = make([]float64, n)
-		for _, e := range r.F[i] {
-			F[i][e.J] = e.F
+		for k, j := range r.F[i].Col {
+			F[i][j] = r.F[i].Val[k]
 		}
 	}
 	return F
@@ -89,7 +89,7 @@ func TestExactMatrixUnchanged(t *testing.T) {
 	in := Counts{
 		Area: []float64{4 * math.Pi, 16 * math.Pi},
 		Rays: []int64{1000, 4000},
-		Hits: [][]Entry{{{1, 1000}}, {{0, 1000}, {1, 3000}}},
+		Hits: []CountRow{{Col: []int32{1}, Val: []int64{1000}}, {Col: []int32{0, 1}, Val: []int64{1000, 3000}}},
 	}
 	r, err := Smooth(in)
 	if err != nil {
@@ -147,12 +147,7 @@ func TestSmoothingProperties(t *testing.T) {
 					if S[i][j] < 0 {
 						t.Fatalf("negative factor %v", S[i][j])
 					}
-					rawF := 0.0
-					for _, e := range c.Hits[i] {
-						if int(e.J) == j {
-							rawF = float64(e.K) / float64(c.Rays[i])
-						}
-					}
+					rawF := float64(c.Hits[i].At(int32(j))) / float64(c.Rays[i])
 					rawErr += (rawF - tc.F[i][j]) * (rawF - tc.F[i][j])
 					smErr += (S[i][j] - tc.F[i][j]) * (S[i][j] - tc.F[i][j])
 				}
@@ -171,7 +166,7 @@ func TestSmoothIdempotentAndZeroPairs(t *testing.T) {
 	in := Counts{
 		Area:    []float64{1, 2, 3},
 		Rays:    []int64{1000, 1000, 1000},
-		Hits:    [][]Entry{{{2, 300}}, {{2, 500}}, {{0, 90}, {1, 340}}},
+		Hits:    []CountRow{{Col: []int32{2}, Val: []int64{300}}, {Col: []int32{2}, Val: []int64{500}}, {Col: []int32{0, 1}, Val: []int64{90, 340}}},
 		Ambient: []int64{700, 500, 570},
 	}
 	r, err := Smooth(in)
@@ -183,11 +178,11 @@ func TestSmoothIdempotentAndZeroPairs(t *testing.T) {
 		t.Errorf("unseen pair became %v, %v", F[0][1], F[1][0])
 	}
 	const big = 1e12
-	again := Counts{Area: in.Area, Rays: []int64{big, big, big}, Ambient: make([]int64, 3), Hits: make([][]Entry, 3)}
+	again := Counts{Area: in.Area, Rays: []int64{big, big, big}, Ambient: make([]int64, 3), Hits: make([]CountRow, 3)}
 	for i := range F {
 		for j, f := range F[i] {
 			if f > 0 {
-				again.Hits[i] = append(again.Hits[i], Entry{int32(j), int64(math.Round(f * big))})
+				again.Hits[i].Append(int32(j), int64(math.Round(f*big)))
 			}
 		}
 		again.Ambient[i] = int64(math.Round(r.Ambient[i] * big))
@@ -218,9 +213,9 @@ func TestSmoothDeterministic(t *testing.T) {
 	for range 20 {
 		again, _ := Smooth(c)
 		for i := range first.F {
-			for k := range first.F[i] {
-				if again.F[i][k] != first.F[i][k] {
-					t.Fatalf("row %d entry %d: %v then %v", i, k, first.F[i][k], again.F[i][k])
+			for k := range first.F[i].Val {
+				if again.F[i].Val[k] != first.F[i].Val[k] || again.F[i].Col[k] != first.F[i].Col[k] {
+					t.Fatalf("row %d entry %d: %v then %v", i, k, first.F[i].Val[k], again.F[i].Val[k])
 				}
 			}
 		}
@@ -231,36 +226,31 @@ func TestSmoothDeterministic(t *testing.T) {
 // others (a banded sparse pattern), 10⁵ rays per node.
 func BenchmarkSmooth(b *testing.B) {
 	const n, band = 2000, 25
-	c := Counts{Area: make([]float64, n), Rays: make([]int64, n), Hits: make([][]Entry, n), Ambient: make([]int64, n)}
+	c := Counts{Area: make([]float64, n), Rays: make([]int64, n), Hits: make([]CountRow, n), Ambient: make([]int64, n)}
 	rng := rand.New(rand.NewPCG(1, 1))
 	for i := range n {
 		c.Area[i] = 1 + rng.Float64()
 		c.Rays[i] = 100000
 		left := int64(100000)
+		row := make([]int64, n)
 		for d := -band; d <= band; d++ {
-			j := (i + d + n) % n
-			if d == 0 {
-				continue
+			if d != 0 {
+				k := int64(1500 + rng.IntN(500))
+				row[(i+d+n)%n] = k
+				left -= k
 			}
-			k := int64(1500 + rng.IntN(500))
-			c.Hits[i] = append(c.Hits[i], Entry{int32(j), k})
-			left -= k
 		}
-		sortEntries(c.Hits[i])
+		for j, k := range row {
+			if k > 0 {
+				c.Hits[i].Append(int32(j), k)
+			}
+		}
 		c.Ambient[i] = left
 	}
 	b.ReportAllocs()
 	for b.Loop() {
 		if _, err := Smooth(c); err != nil {
 			b.Fatal(err)
-		}
-	}
-}
-
-func sortEntries(e []Entry) {
-	for i := 1; i < len(e); i++ {
-		for k := i; k > 0 && e[k].J < e[k-1].J; k-- {
-			e[k], e[k-1] = e[k-1], e[k]
 		}
 	}
 }

@@ -1,0 +1,21 @@
+package sparse
+
+import (
+	"reflect"
+	"testing"
+)
+
+func TestRow(t *testing.T) {
+	a := Row[int64]{Col: []int32{1, 4, 7}, Val: []int64{2, 3, 5}}
+	b := Row[int64]{Col: []int32{0, 4, 9}, Val: []int64{1, 10, 1}}
+	want := Row[int64]{Col: []int32{0, 1, 4, 7, 9}, Val: []int64{1, 2, 13, 5, 1}}
+	if got := a.Add(b); !reflect.DeepEqual(got, want) {
+		t.Errorf("a + b = %+v, want %+v", got, want)
+	}
+	if a.At(4) != 3 || a.At(5) != 0 || a.Sum() != 10 || a.Len() != 3 {
+		t.Errorf("At, Sum, Len: %v %v %v %v", a.At(4), a.At(5), a.Sum(), a.Len())
+	}
+	if !a.Increasing(8) || a.Increasing(7) || (&Row[int64]{Col: []int32{2, 2}, Val: []int64{1, 1}}).Increasing(9) {
+		t.Error("Increasing")
+	}
+}
