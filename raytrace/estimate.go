@@ -195,7 +195,7 @@ type unit = UnitID
 // (Rays·2^k), so the same units arise however a run is interrupted,
 // resumed or split.
 type UnitID struct {
-	Node   int32
+	Node   NodeID
 	Lo, Hi int64
 }
 
@@ -214,7 +214,7 @@ func planUnits(target []int64, o *Options) []unit {
 			if o.MaxRays > lo && o.MaxRays < hi {
 				hi = o.MaxRays
 			}
-			us = append(us, unit{int32(i), lo, hi})
+			us = append(us, unit{NodeID(i), lo, hi})
 			lo = hi
 		}
 	}
@@ -367,7 +367,7 @@ func (e *engine) trace(ctx context.Context, u unit, s []*scratch, b *bvh.Batch) 
 			case !h.Front && back[h.Facet] >= 0:
 				sc.hit(back[h.Facet])
 			default:
-				sc.backHit(surf[h.Facet])
+				sc.backHit(SurfaceID(surf[h.Facet]))
 			}
 		}
 		e.traced.Add(int64(n))

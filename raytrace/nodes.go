@@ -15,11 +15,19 @@ type Node struct {
 	Area    float64 // m²
 }
 
+// NodeID is the index of a radiation node: a row of a tally and a column
+// of its hits. SurfaceID is the index of a mesh surface: a column of the
+// back-face hits. Facet ids stay the mesh's plain int32.
+type (
+	NodeID    int32
+	SurfaceID int32
+)
+
 // nodeMap says which node each side of each facet belongs to.
 type nodeMap struct {
 	nodes []Node
-	front []int32 // node of each facet's front
-	back  []int32 // node of each facet's back, −1 for one-sided surfaces
+	front []NodeID // node of each facet's front
+	back  []NodeID // node of each facet's back, −1 for one-sided surfaces
 }
 
 // buildNodes makes the nodes of m. twoSided names the two-sided surfaces.
@@ -31,14 +39,14 @@ func buildNodes(m *mesh.Mesh, twoSided map[string]bool, facetNodes bool, area []
 			return nil, fmt.Errorf("two-sided surface %q is not in the model", name)
 		}
 	}
-	nm := &nodeMap{front: make([]int32, len(m.Facets)), back: make([]int32, len(m.Facets))}
-	add := func(name string, s int, back bool, facets []int32) int32 {
+	nm := &nodeMap{front: make([]NodeID, len(m.Facets)), back: make([]NodeID, len(m.Facets))}
+	add := func(name string, s int, back bool, facets []int32) NodeID {
 		a := 0.0
 		for _, f := range facets {
 			a += area[f]
 		}
 		nm.nodes = append(nm.nodes, Node{Name: name, Surface: s, Back: back, Facets: facets, Area: a})
-		return int32(len(nm.nodes) - 1)
+		return NodeID(len(nm.nodes) - 1)
 	}
 	for s, surf := range m.Surfaces {
 		two := twoSided[surf.Name]
@@ -53,7 +61,7 @@ func buildNodes(m *mesh.Mesh, twoSided map[string]bool, facetNodes bool, area []
 		}
 		if !facetNodes {
 			fi := add(surf.Name, s, false, emitting)
-			bi := int32(-1)
+			bi := NodeID(-1)
 			if two {
 				bi = add(surf.Name+".back", s, true, emitting)
 			}

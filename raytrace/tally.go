@@ -27,22 +27,23 @@ func newTally(nodes int) *Tally {
 
 // scratch accumulates one work unit densely, then emits sparse rows.
 type scratch struct {
-	hits, back        []int64
-	touched, touchedB []int32
+	hits, back []int64
+	touched    []NodeID
+	touchedB   []SurfaceID
 }
 
 func newScratch(nodes, surfaces int) *scratch {
 	return &scratch{hits: make([]int64, nodes), back: make([]int64, surfaces)}
 }
 
-func (s *scratch) hit(j int32) {
+func (s *scratch) hit(j NodeID) {
 	if s.hits[j] == 0 {
 		s.touched = append(s.touched, j)
 	}
 	s.hits[j]++
 }
 
-func (s *scratch) backHit(surface int32) {
+func (s *scratch) backHit(surface SurfaceID) {
 	if s.back[surface] == 0 {
 		s.touchedB = append(s.touchedB, surface)
 	}
@@ -51,16 +52,19 @@ func (s *scratch) backHit(surface int32) {
 
 // take returns the accumulated rows and clears the scratch.
 func (s *scratch) take() (hits, back Row) {
-	drain := func(dense []int64, touched []int32) Row {
-		slices.Sort(touched)
-		r := Row{Col: make([]int32, len(touched)), Val: make([]int64, len(touched))}
-		for k, c := range touched {
-			r.Col[k], r.Val[k] = c, dense[c]
-			dense[c] = 0
-		}
-		return r
-	}
 	hits, back = drain(s.hits, s.touched), drain(s.back, s.touchedB)
 	s.touched, s.touchedB = s.touched[:0], s.touchedB[:0]
 	return hits, back
+}
+
+// drain turns the touched entries of a dense row into a sparse row and
+// zeroes them.
+func drain[ID NodeID | SurfaceID](dense []int64, touched []ID) Row {
+	slices.Sort(touched)
+	r := Row{Col: make([]int32, len(touched)), Val: make([]int64, len(touched))}
+	for k, c := range touched {
+		r.Col[k], r.Val[k] = int32(c), dense[c]
+		dense[c] = 0
+	}
+	return r
 }

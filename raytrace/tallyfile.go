@@ -142,7 +142,7 @@ func ReadTallyFile(data []byte) (ck *Checkpoint, meta []byte, err error) {
 	nd := r.count(r.u64(), 20)
 	ck.Done = make([]UnitID, nd)
 	for k := range ck.Done {
-		ck.Done[k] = UnitID{Node: int32(r.u32()), Lo: r.i64(), Hi: r.i64()}
+		ck.Done[k] = UnitID{Node: NodeID(r.u32()), Lo: r.i64(), Hi: r.i64()}
 		if u := ck.Done[k]; r.err == nil && (int(u.Node) >= n || u.Node < 0 || u.Lo < 0 || u.Hi <= u.Lo) {
 			r.err = fmt.Errorf("%w: work unit %+v is out of range", ErrTallyFile, u)
 		}
