@@ -27,16 +27,20 @@ func LoadFile(path string, opts LoadOptions) (*Mesh, error) {
 	if ext != ".stl" && ext != ".obj" {
 		return nil, fmt.Errorf("%s: unknown mesh format %q (hemiray reads .stl and .obj)", path, ext)
 	}
+	// Check before opening: opening a FIFO blocks, and a device such as
+	// /dev/zero never ends.
+	if st, err := os.Stat(path); err != nil {
+		return nil, err
+	} else if st.IsDir() {
+		return nil, &ParseError{Path: path, Err: errors.New("is a directory, not a mesh file")}
+	} else if !st.Mode().IsRegular() {
+		return nil, &ParseError{Path: path, Err: errors.New("is not a regular file (a pipe or a device?)")}
+	}
 	f, err := os.Open(path)
 	if err != nil {
 		return nil, err
 	}
 	defer f.Close()
-	if st, err := f.Stat(); err != nil {
-		return nil, err
-	} else if st.IsDir() {
-		return nil, &ParseError{Path: path, Err: errors.New("is a directory, not a mesh file")}
-	}
 	if ext == ".stl" {
 		return ReadSTL(f, path, unit)
 	}

@@ -50,6 +50,13 @@ func ReadOBJ(r io.Reader, name string, opts OBJOptions) (*Mesh, error) {
 	return p.b.finish(), nil
 }
 
+// maxLine bounds one OBJ line (or statement continued with \), so that a
+// file without line breaks cannot take unbounded memory.
+const maxLine = 64 << 20
+
+// utf8BOM is the byte-order mark some editors put before the first line.
+var utf8BOM = []byte("\xef\xbb\xbf")
+
 // maxPolygon bounds the corners of one OBJ face: ear clipping takes time
 // quadratic in the corners (cubic for pathological outlines).
 const maxPolygon = 10000
@@ -71,17 +78,23 @@ func (p *objParser) errorf(format string, args ...any) error {
 
 func (p *objParser) parse(r io.Reader) error {
 	sc := bufio.NewScanner(r)
-	sc.Buffer(make([]byte, 64*1024), math.MaxInt32)
+	sc.Buffer(make([]byte, 64*1024), maxLine)
 	var joined []byte
 	p.b.use(surfaceName("", p.name))
 	for sc.Scan() {
 		p.lines++
 		text := bytes.TrimRight(sc.Bytes(), " \t\r")
+		if p.lines == 1 {
+			text = bytes.TrimPrefix(text, utf8BOM)
+		}
 		if len(joined) == 0 {
 			p.line = int32(p.lines)
 		}
 		// A trailing backslash continues the statement on the next line.
 		if len(text) > 0 && text[len(text)-1] == '\\' {
+			if len(joined)+len(text) > maxLine {
+				return p.errorf("a statement continued with \\ runs over %d MiB", maxLine>>20)
+			}
 			joined = append(joined, text[:len(text)-1]...)
 			joined = append(joined, ' ')
 			continue
@@ -94,7 +107,9 @@ func (p *objParser) parse(r io.Reader) error {
 			return err
 		}
 	}
-	if err := sc.Err(); err != nil {
+	if err := sc.Err(); errors.Is(err, bufio.ErrTooLong) {
+		return &ParseError{Path: p.name, Line: p.lines + 1, Err: fmt.Errorf("line longer than %d MiB: not an OBJ file", maxLine>>20)}
+	} else if err != nil {
 		return &ParseError{Path: p.name, Line: p.lines + 1, Err: err}
 	}
 	if len(joined) > 0 {

@@ -8,6 +8,7 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
+	"syscall"
 	"testing"
 
 	"github.com/hemiray/hemiray/geometry"
@@ -320,4 +321,39 @@ func hugePolygon() []byte {
 	}
 	b.WriteString("\n")
 	return []byte(b.String())
+}
+
+// A UTF-8 byte-order mark before the first line (some Windows editors write
+// one) is not part of the first statement: the first vertex still counts,
+// so every index and the area stay right (common practice for text readers).
+func TestByteOrderMark(t *testing.T) {
+	const bom = "\xef\xbb\xbf"
+	obj := bom + "v 0 0 0\nv 2 0 0\nv 0 1 0\nf 1 2 3\n"
+	m, err := ReadOBJ(strings.NewReader(obj), "bom.obj", OBJOptions{Unit: Metre})
+	if err != nil || len(m.Vertices) != 3 || m.TotalArea() != 1 {
+		t.Errorf("OBJ with a BOM: %v, %d vertices, area %v; want 3 vertices, area 1", err, len(m.Vertices), m.TotalArea())
+	}
+	stl := bom + "solid plate\nfacet normal 0 0 1\nouter loop\nvertex 0 0 0\nvertex 2 0 0\nvertex 0 1 0\nendloop\nendfacet\nendsolid plate\n"
+	m, err = ReadSTL(strings.NewReader(stl), "bom.stl", Metre)
+	if err != nil {
+		t.Fatalf("ASCII STL with a BOM: %v", err)
+	}
+	if m.TotalArea() != 1 || len(m.Surfaces) != 1 || m.Surfaces[0].Name != "plate" {
+		t.Errorf("ASCII STL with a BOM: area %v, surfaces %+v; want 1 and one surface \"plate\"", m.TotalArea(), m.Surfaces)
+	}
+}
+
+// Special files are refused before they are opened: a FIFO would block the
+// read forever, a device would never end.
+func TestLoadRefusesSpecialFiles(t *testing.T) {
+	fifo := filepath.Join(t.TempDir(), "pipe.obj")
+	if err := syscall.Mkfifo(fifo, 0o600); err != nil {
+		t.Skip("no FIFOs here:", err)
+	}
+	if _, err := LoadFile(fifo, LoadOptions{}); err == nil || !strings.Contains(err.Error(), "not a regular file") {
+		t.Errorf("FIFO: %v", err)
+	}
+	if _, err := LoadFile("/dev/zero.obj", LoadOptions{}); err == nil {
+		t.Error("a missing device path read without error")
+	}
 }

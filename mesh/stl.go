@@ -319,6 +319,7 @@ func (p *asciiSTL) facet() error {
 }
 
 func readASCIISTL(data []byte, name string, unit Unit) (*Mesh, error) {
+	data = bytes.TrimPrefix(data, utf8BOM)
 	b := newBuilder(&Source{Path: name, Format: "stl-ascii", Unit: unit})
 	p := &asciiSTL{name: name, data: data, sink: &stlSink{b: b, w: newWelder(len(data) / 500)}}
 	if err := p.parse(unit); err != nil {
