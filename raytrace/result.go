@@ -42,7 +42,10 @@ func (r *Result) Z() float64 { return r.z }
 // Ambient is the column index of the ambient node: len(Nodes).
 func (r *Result) Ambient() int { return len(r.Nodes) }
 
-// HasAmbient reports whether any ray left the model.
+// HasAmbient reports whether any ray left the model (an open model). It
+// decides the physics (an ambient temperature is needed) but not the
+// columns of the outputs, which always include the ambient so that they
+// never depend on the random draw.
 func (r *Result) HasAmbient() bool {
 	for _, e := range r.Escaped {
 		if e > 0 {
@@ -94,12 +97,10 @@ func (r *Result) Row(i int, fn func(j int, f Factor)) {
 }
 
 // RowHalfWidth returns the largest interval half-width in row i, zero
-// entries included (their Wilson interval is [0, z²/(n+z²)]).
+// entries included (their Wilson interval is [0, z²/(n+z²)]), the ambient
+// column too. O(entries of the row).
 func (r *Result) RowHalfWidth(i int) float64 {
-	cols := len(r.Nodes)
-	if r.HasAmbient() {
-		cols++
-	}
+	cols := len(r.Nodes) + 1
 	w, nonzero := 0.0, 0
 	r.Row(i, func(_ int, f Factor) {
 		w = math.Max(w, f.HalfWidth)

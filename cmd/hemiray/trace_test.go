@@ -73,3 +73,21 @@ func TestTraceBadInput(t *testing.T) {
 		})
 	}
 }
+
+// The columns of the matrix files depend on the model, never on the draw:
+// a closed box, where no ray escapes, still has the ambient column (all
+// zeros), like an open model (design rule; common practice for schemas).
+func TestAmbientColumnAlwaysPresent(t *testing.T) {
+	dir := t.TempDir()
+	box := writeBox(t, dir)
+	out := filepath.Join(dir, "out")
+	if code, _, e := runCLI("trace", box, "--rays", "2000", "--quiet", "-o", out); code != 0 {
+		t.Fatal(e)
+	}
+	for _, f := range []string{"viewfactors.csv", "viewfactors_halfwidth.csv"} {
+		lines := strings.Split(string(mustRead(t, filepath.Join(out, f))), "\n")
+		if !strings.HasSuffix(lines[0], ",ambient") || !strings.HasSuffix(lines[1], ",0") && f == "viewfactors.csv" {
+			t.Errorf("%s of a closed box: header %q, first row %q", f, lines[0], lines[1])
+		}
+	}
+}

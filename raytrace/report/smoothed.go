@@ -10,29 +10,24 @@ import (
 )
 
 // nodeColumns returns the column names of a's square files: the nodes,
-// then the ambient when the model is open.
+// then the ambient (always; zero for a closed model).
 func nodeColumns(a *analysis.Result) []string {
 	cols := make([]string, 0, len(a.Nodes)+1)
 	for _, n := range a.Nodes {
 		cols = append(cols, n.Name)
 	}
-	if a.Open {
-		cols = append(cols, "ambient")
-	}
-	return cols
+	return append(cols, "ambient")
 }
 
-// smoothedRow fills dense with row i of the smoothed matrix (ambient last
-// when open) and returns it.
+// smoothedRow fills dense with row i of the smoothed matrix, ambient
+// last, and returns it.
 func smoothedRow(a *analysis.Result, i int, dense []float64) []float64 {
 	clear(dense)
 	row := &a.Smoothed.F[i]
 	for k, j := range row.Col {
 		dense[j] = row.Val[k]
 	}
-	if a.Open {
-		dense[len(a.Nodes)] = a.Smoothed.Ambient[i]
-	}
+	dense[len(a.Nodes)] = a.Smoothed.Ambient[i]
 	return dense
 }
 
@@ -89,7 +84,7 @@ func writeSmoothed(dir string, a *analysis.Result) ([]string, error) {
 					return err
 				}
 			}
-			if a.Open {
+			if a.RawAmbient[i] > 0 || a.Smoothed.Ambient[i] > 0 {
 				if err := row(n.Name, "ambient", a.RawAmbient[i], a.Smoothed.Ambient[i], a.Smoothed.MovedAmbient[i]); err != nil {
 					return err
 				}

@@ -20,10 +20,7 @@ func NodeTable(w io.Writer, res *raytrace.Result) {
 	tw := tabwriter.NewWriter(w, 0, 4, 2, ' ', 0)
 	fmt.Fprintln(tw, "node\tarea_m2\trays\tto_ambient\tmax_halfwidth\trow_sum\t")
 	for i, n := range res.Nodes {
-		amb := "-"
-		if res.HasAmbient() {
-			amb = fmt.Sprintf("%.4f", res.Factor(i, res.Ambient()).F)
-		}
+		amb := fmt.Sprintf("%.4f", res.Factor(i, res.Ambient()).F)
 		fmt.Fprintf(tw, "%s\t%.6g\t%d\t%s\t%.2g\t%.6f\t\n", n.Name, n.Area, res.Rays[i], amb, res.RowHalfWidth(i), res.RowSum(i))
 	}
 	tw.Flush()

@@ -12,16 +12,15 @@ import (
 // not written (the pairs files carry every non-zero entry).
 const SquareLimit = 2000
 
-// columns returns the column names of the square files.
+// columns returns the column names of the square files: the nodes, then
+// the ambient — always, so the files' layout never depends on whether a
+// ray happened to escape.
 func columns(res *raytrace.Result) []string {
-	var cols []string
+	cols := make([]string, 0, len(res.Nodes)+1)
 	for _, n := range res.Nodes {
 		cols = append(cols, n.Name)
 	}
-	if res.HasAmbient() {
-		cols = append(cols, "ambient")
-	}
-	return cols
+	return append(cols, "ambient")
 }
 
 // writeViewFactors writes the raw view factors, their half-widths and the
