@@ -1,6 +1,7 @@
 package raytrace
 
 import (
+	"cmp"
 	"fmt"
 	"slices"
 )
@@ -95,6 +96,15 @@ func (r *Result) pending() []unit {
 		}
 		out = append(out, u)
 	}
+	// Every node progresses together: first each node's first batch, then
+	// each node's second, … so that a run stopped early (a time limit) has
+	// rays for every node. The order cannot change a tally.
+	slices.SortStableFunc(out, func(a, b unit) int {
+		if a.Lo != b.Lo {
+			return cmp.Compare(a.Lo, b.Lo)
+		}
+		return cmp.Compare(a.Node, b.Node)
+	})
 	return out
 }
 

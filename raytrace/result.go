@@ -212,3 +212,27 @@ func NewResult(nodes []Node, t Tally, replicas []Tally, opts Options) (*Result, 
 
 // NewTally returns an empty tally for n nodes.
 func NewTally(n int) Tally { return *newTally(n) }
+
+// Missed is a node whose row did not reach the HalfWidth target.
+type Missed struct {
+	Node      int
+	HalfWidth float64 // the row's widest interval half-width
+	Rays      int64
+}
+
+// MissedHalfWidth lists, widest first, the nodes whose row still has an
+// interval half-width above Options.HalfWidth (nil without a target): the
+// rows that stopped at MaxRays, or whose run was cut short.
+func (r *Result) MissedHalfWidth() []Missed {
+	if r.Options.HalfWidth == 0 {
+		return nil
+	}
+	var out []Missed
+	for i := range r.Nodes {
+		if w := r.RowHalfWidth(i); w > r.Options.HalfWidth {
+			out = append(out, Missed{Node: i, HalfWidth: w, Rays: r.Rays[i]})
+		}
+	}
+	sort.SliceStable(out, func(a, b int) bool { return out[a].HalfWidth > out[b].HalfWidth })
+	return out
+}

@@ -244,3 +244,40 @@ func TestShardHalfWidthRounds(t *testing.T) {
 	}
 	sameOutputs(t, single, merged)
 }
+
+// Completeness comes from the plan: solve on the checkpoint of a run that a
+// time limit stopped says INCOMPLETE on the console and complete = false in
+// summary.json; a --halfwidth run stopped by --max-rays names the rows that
+// missed the target.
+func TestIncompleteAndMissedTargets(t *testing.T) {
+	dir := t.TempDir()
+	box := writeBox(t, dir)
+	cs := filepath.Join(dir, "c.toml")
+	os.WriteFile(cs, []byte("[model]\nfiles = [\""+box+"\"]\n[defaults]\nemissivity = 0.5\ntemperature = 300\n[surfaces.zmin]\ntemperature = 400\n"), 0o644)
+	out := filepath.Join(dir, "out")
+	code, _, e := runCLI("run", cs, "--rays", "50000000", "--time-limit", "1500ms", "--quiet", "--no-pictures", "-o", out)
+	if code != 0 {
+		t.Fatalf("run: exit %d, %s", code, e)
+	}
+	code, _, e = runCLI("solve", cs, "--rays", "50000000", "--no-pictures", "-o", out)
+	var s struct {
+		Complete bool `json:"complete"`
+		Missed   []struct {
+			Node string `json:"node"`
+		} `json:"halfwidth_missed"`
+	}
+	if err := json.Unmarshal(mustRead(t, filepath.Join(out, "summary.json")), &s); err != nil {
+		t.Fatal(err)
+	}
+	if code != 0 || !strings.Contains(e, "INCOMPLETE") || s.Complete {
+		t.Errorf("solve of an interrupted run: exit %d, complete %v, stderr %q", code, s.Complete, e)
+	}
+	hw := filepath.Join(dir, "hw")
+	code, _, e = runCLI("trace", box, "--rays", "1000", "--halfwidth", "0.002", "--max-rays", "2000", "--quiet", "-o", hw)
+	if err := json.Unmarshal(mustRead(t, filepath.Join(hw, "summary.json")), &s); err != nil {
+		t.Fatal(err)
+	}
+	if code != 0 || !strings.Contains(e, "did not reach the half-width target 0.002") || len(s.Missed) != 6 || !s.Complete {
+		t.Errorf("--halfwidth stopped by --max-rays: exit %d, %d rows listed, complete %v, stderr %q", code, len(s.Missed), s.Complete, e)
+	}
+}

@@ -45,6 +45,11 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 	if in.Case == nil {
 		return nil, fmt.Errorf("an exchange solve needs a case file with emissivities and conditions")
 	}
+	for i, n := range res.Nodes {
+		if res.Rays[i] == 0 {
+			return nil, fmt.Errorf("no ray has been traced from %s yet (a time limit or an interrupt came too soon): continue the trace with --resume, or give it more time", n.Name)
+		}
+	}
 	open := res.HasAmbient()
 	sm, err := smoothTally(res, &res.Tally, open)
 	if err != nil {

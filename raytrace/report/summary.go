@@ -26,6 +26,13 @@ type NodeSummary struct {
 	ReciprocityErr float64 `json:"max_reciprocity_error,omitempty"`
 }
 
+// MissedRow is a node whose row did not reach the half-width target.
+type MissedRow struct {
+	Node      string  `json:"node"`
+	HalfWidth float64 `json:"halfwidth"`
+	Rays      int64   `json:"rays"`
+}
+
 // Summary is the content of summary.json.
 type Summary struct {
 	Tool            string                  `json:"tool"`
@@ -38,7 +45,8 @@ type Summary struct {
 	HalfWidthTarget float64                 `json:"halfwidth_target,omitempty"`
 	Confidence      float64                 `json:"confidence"`
 	FacetNodes      bool                    `json:"facet_nodes"`
-	Complete        bool                    `json:"complete"` // false when a time limit stopped the trace
+	Complete        bool                    `json:"complete"` // every planned ray traced (from the plan, not from how the run ended)
+	HalfWidthMissed []MissedRow             `json:"halfwidth_missed,omitempty"`
 	RaysTraced      int64                   `json:"rays_traced"`
 	EscapedRays     int64                   `json:"escaped_rays"`
 	BackFaceRays    int64                   `json:"backface_rays"`
@@ -83,6 +91,9 @@ func newSummary(in *analysis.Input, t *analysis.Traced, a *analysis.Result, warn
 	s.BackFaces = res.BackFaces(analysis.SurfaceNames(in.Mesh))
 	if res.TraceSeconds > 0 {
 		s.RaysPerSecond = float64(s.RaysTraced) / res.TraceSeconds
+	}
+	for _, m := range res.MissedHalfWidth() {
+		s.HalfWidthMissed = append(s.HalfWidthMissed, MissedRow{Node: res.Nodes[m.Node].Name, HalfWidth: m.HalfWidth, Rays: m.Rays})
 	}
 	open := res.HasAmbient()
 	for i, n := range res.Nodes {

@@ -3,6 +3,7 @@ package report
 import (
 	"fmt"
 	"path/filepath"
+	"strings"
 
 	"github.com/hemiray/hemiray/raytrace"
 	"github.com/hemiray/hemiray/raytrace/analysis"
@@ -27,7 +28,16 @@ func (o *Outputs) Warnings() []string {
 		w = append(w, t.Result.Warnings(analysis.SurfaceNames(o.Input.Mesh))...)
 		w = append(w, t.Notes...)
 		if !t.Complete && len(t.Notes) == 0 {
-			w = append(w, "the trace is incomplete: not every planned ray was traced, so the intervals are wider than planned (summary.json: complete = false)")
+			w = append(w, "INCOMPLETE: not every planned ray was traced (an interrupted run?), so the intervals are wider than planned (summary.json: complete = false); continue it with --resume")
+		}
+		if m := t.Result.MissedHalfWidth(); len(m) > 0 {
+			res := t.Result
+			var worst []string
+			for _, x := range m[:min(len(m), 5)] {
+				worst = append(worst, fmt.Sprintf("%s %.3g with %d rays", res.Nodes[x.Node].Name, x.HalfWidth, x.Rays))
+			}
+			w = append(w, fmt.Sprintf("%d of %d rows did not reach the half-width target %g within %d rays per node (--max-rays); widest: %s (summary.json: halfwidth_missed)",
+				len(m), len(res.Nodes), res.Options.HalfWidth, res.Options.MaxRays, strings.Join(worst, "; ")))
 		}
 	}
 	if o.Analysis != nil {
