@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"math/rand/v2"
 	"os"
 	"os/exec"
@@ -279,5 +280,36 @@ func TestIncompleteAndMissedTargets(t *testing.T) {
 	}
 	if code != 0 || !strings.Contains(e, "did not reach the half-width target 0.002") || len(s.Missed) != 6 || !s.Complete {
 		t.Errorf("--halfwidth stopped by --max-rays: exit %d, %d rows listed, complete %v, stderr %q", code, len(s.Missed), s.Complete, e)
+	}
+}
+
+// Two runs into one folder: the second is refused at once, naming the
+// first, instead of leaving a mix of both; merging into one of the shard
+// folders is refused too.
+func TestOutputFolderLocked(t *testing.T) {
+	dir := t.TempDir()
+	box := writeBox(t, dir)
+	out := filepath.Join(dir, "out")
+	first := hemirayCmd("trace", box, "--rays", "50000000", "--quiet", "--time-limit", "20s", "-o", out)
+	if err := first.Start(); err != nil {
+		t.Fatal(err)
+	}
+	defer func() { first.Process.Signal(syscall.SIGTERM); first.Wait() }()
+	for range 100 { // wait for the first to take the folder
+		if b, _ := os.ReadFile(filepath.Join(out, ".hemiray.lock")); len(b) > 0 {
+			break
+		}
+		time.Sleep(50 * time.Millisecond)
+	}
+	code, _, e := runCLI("trace", box, "--rays", "1000", "--quiet", "-o", out)
+	if code != 1 || !strings.Contains(e, "in use") || !strings.Contains(e, fmt.Sprintf("pid %d", first.Process.Pid)) {
+		t.Errorf("second run into a busy folder: exit %d, %q", code, e)
+	}
+	part := filepath.Join(dir, "p0")
+	if code, _, e := runCLI("trace", box, "--rays", "1000", "--quiet", "--shard", "0/1", "-o", part); code != 0 {
+		t.Fatal(e)
+	}
+	if code, _, e := runCLI("merge", "-o", part, part); code != 1 || !strings.Contains(e, "also a shard") {
+		t.Errorf("merge into its own input: exit %d, %q", code, e)
 	}
 }

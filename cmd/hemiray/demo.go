@@ -47,6 +47,11 @@ DIR/results. The case file is a commented starting point for your own.`,
 		if err != nil {
 			return err
 		}
+		unlock, err := j.lock()
+		if err != nil {
+			return err
+		}
+		defer unlock()
 		if err := j.in.Preflight(); err != nil {
 			return err
 		}

@@ -161,3 +161,6 @@ func availableMemory() int64 {
 	}
 	return 0
 }
+
+// lock takes the job's output folder for this process.
+func (j *job) lock() (unlock func(), err error) { return analysis.LockDir(j.run.Dir) }

@@ -44,6 +44,11 @@ with --plan DIR/plan.json --resume, then merge again.`,
 }
 
 func merge(dir string, names []string, stdout, stderr io.Writer) error {
+	unlock, err := analysis.LockDir(dir)
+	if err != nil {
+		return err
+	}
+	defer unlock()
 	var parts []analysis.Part
 	outAbs, _ := filepath.Abs(dir)
 	for _, p := range names {

@@ -49,6 +49,11 @@ confidence). The README documents the case file.`,
 		if err != nil {
 			return err
 		}
+		unlock, err := j.lock()
+		if err != nil {
+			return err
+		}
+		defer unlock()
 		s := &j.in.Settings
 		if *replicates != 0 {
 			s.Replicates = *replicates
@@ -119,6 +124,11 @@ intervals (the file carries none).`,
 		if err != nil {
 			return err
 		}
+		unlock, err := j.lock()
+		if err != nil {
+			return err
+		}
+		defer unlock()
 		if *given != "" {
 			return solveGiven(j, *given, stdout, stderr)
 		}

@@ -45,6 +45,11 @@ on the command line override the case file.`,
 		if err != nil {
 			return err
 		}
+		unlock, err := j.lock()
+		if err != nil {
+			return err
+		}
+		defer unlock()
 		t, err := j.trace(ctx, stderr)
 		if err != nil {
 			return err

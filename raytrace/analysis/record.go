@@ -125,3 +125,9 @@ func ReadTallies(path string) (*raytrace.Checkpoint, *Record, error) {
 	}
 	return ck, &r, nil
 }
+
+// LockDir takes the output folder dir for this process (creating it), so
+// that two runs never mix their results in one folder: a second run fails
+// at once naming the first, and an unwritable folder fails before any
+// work. Call unlock when the results are written.
+func LockDir(dir string) (unlock func(), err error) { return atomicfile.Lock(dir) }

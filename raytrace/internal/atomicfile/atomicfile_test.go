@@ -5,6 +5,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"strings"
 	"syscall"
 	"testing"
 )
@@ -36,5 +37,36 @@ func TestWrite(t *testing.T) {
 	}
 	if b, _ := os.ReadFile(p); string(b) != "y\n" {
 		t.Errorf("content %q", b)
+	}
+}
+
+// A second lock on a held folder fails at once and names the holder; a
+// leftover temporary file is cleaned up; the lock can be taken again after
+// it is released.
+func TestLock(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "out")
+	unlock, err := Lock(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	os.WriteFile(filepath.Join(dir, ".surfaces.csv.0badf00d.tmp"), []byte("half"), 0o644)
+	if _, err := Lock(dir); !errors.Is(err, ErrLocked) || !strings.Contains(err.Error(), "hemiray pid") {
+		t.Errorf("second lock: %v", err)
+	}
+	unlock()
+	unlock2, err := Lock(dir)
+	if err != nil {
+		t.Fatalf("lock after unlock: %v", err)
+	}
+	defer unlock2()
+	if left, _ := filepath.Glob(filepath.Join(dir, ".*.tmp")); len(left) != 0 {
+		t.Errorf("stale temporary files left: %v", left)
+	}
+	ro := filepath.Join(t.TempDir(), "ro")
+	os.Mkdir(ro, 0o555)
+	if os.Getuid() != 0 { // root writes anywhere
+		if _, err := Lock(ro); err == nil {
+			t.Error("an unwritable folder was locked")
+		}
 	}
 }
