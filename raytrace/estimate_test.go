@@ -4,6 +4,7 @@ import (
 	"context"
 	"math"
 	"reflect"
+	"strings"
 	"testing"
 
 	"github.com/hemiray/hemiray/geometry"
@@ -242,5 +243,38 @@ func TestReplicatesAddUp(t *testing.T) {
 	}
 	if !reflect.DeepEqual(r2.Tally, r.Tally) {
 		t.Error("pooled tally depends on the replicate count")
+	}
+}
+
+// Names that would be ambiguous in the outputs are refused: a surface
+// called ambient, a surface X.back beside a two-sided X. (Facet nodes,
+// NAME#k and NAME#k.back, cannot clash: every one ends in its facet.)
+func TestNodeNamesUnambiguous(t *testing.T) {
+	v := func(x, y, z float64) geometry.Vec3 { return geometry.Vec3{X: x, Y: y, Z: z} }
+	rect := func(name string, z float64) *mesh.Mesh { return mesh.Rectangle(name, v(0, 0, z), v(1, 0, 0), v(0, 1, 0), 1, 1) }
+	join := func(ms ...*mesh.Mesh) *mesh.Mesh {
+		out := &mesh.Mesh{}
+		for _, m := range ms {
+			if err := out.Append(m); err != nil {
+				t.Fatal(err)
+			}
+		}
+		return out
+	}
+	tests := []struct {
+		m    *mesh.Mesh
+		s    Settings
+		want string
+	}{
+		{join(rect("ambient", 0), rect("b", 1)), Settings{}, `called "ambient"`},
+		{join(rect("x", 0), rect("x.back", 1)), Settings{TwoSided: []string{"x"}}, `"x.back"`},
+	}
+	for _, tc := range tests {
+		if _, err := Nodes(tc.m, Options{Settings: tc.s}); err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%v: error %v, want one naming %s", tc.s, err, tc.want)
+		}
+	}
+	if _, err := Nodes(join(rect("x", 0), rect("x.back", 1)), Options{}); err != nil {
+		t.Errorf("x.back is a fine name when x is one-sided: %v", err)
 	}
 }

@@ -83,5 +83,24 @@ func buildNodes(m *mesh.Mesh, twoSided map[string]bool, facetNodes bool, area []
 			}
 		}
 	}
-	return nm, nil
+	return nm, checkNames(nm.nodes, m)
+}
+
+// checkNames refuses node names that would be ambiguous in the outputs:
+// "ambient" (the surroundings' column) and any name two nodes share — a
+// surface called X.back beside a two-sided X, or a surface called P#3
+// beside the facet nodes of P.
+func checkNames(nodes []Node, m *mesh.Mesh) error {
+	seen := make(map[string]int, len(nodes))
+	for i, n := range nodes {
+		if n.Name == "ambient" {
+			return fmt.Errorf("a surface is called %q, the name of the surroundings' column: rename it in the mesh file (OBJ g/o line, STL solid name)", n.Name)
+		}
+		if k, dup := seen[n.Name]; dup {
+			a, b := m.Surfaces[nodes[k].Surface].Name, m.Surfaces[n.Surface].Name
+			return fmt.Errorf("two nodes would both be called %q (from surfaces %q and %q): rename one of the surfaces in its mesh file", n.Name, a, b)
+		}
+		seen[n.Name] = i
+	}
+	return nil
 }
