@@ -86,6 +86,9 @@ AZIMUTH,ELEVATION in degrees (default 35,25).`,
 			if err != nil {
 				return err
 			}
+			if err := report.MatchField(values, nodes, dir); err != nil {
+				return err
+			}
 			img = p.ByField(view, w, h, nodes, values, label)
 		}
 		if err := report.WritePNG(out, img); err != nil {

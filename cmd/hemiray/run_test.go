@@ -258,3 +258,19 @@ func TestSolveGivenViewFactors(t *testing.T) {
 		t.Errorf("unknown node: exit %d, %q", code, e)
 	}
 }
+
+// render refuses to paint the results of another model.
+func TestRenderRefusesOtherResults(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "cabinet")
+	if code, _, e := runCLI("trace", "../../testdata/cabinet_multi.stl", "--rays", "2000", "--quiet", "-o", out); code != 0 {
+		t.Fatal(e)
+	}
+	code, _, e := runCLI("render", "../../testdata/duct_bend.obj", "--color", "ambient", "--results", out, "-o", filepath.Join(dir, "x.png"))
+	if code != 1 || !strings.Contains(e, "another model") {
+		t.Errorf("render with another model's results: exit %d, %q", code, e)
+	}
+	if code, _, e := runCLI("render", "../../testdata/cabinet_multi.stl", "--color", "ambient", "--results", out, "--size", "200x100", "-o", filepath.Join(dir, "y.png")); code != 0 {
+		t.Errorf("render with its own results: exit %d, %q", code, e)
+	}
+}

@@ -4,6 +4,7 @@ import (
 	"encoding/csv"
 	"errors"
 	"fmt"
+	"github.com/hemiray/hemiray/raytrace"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -68,4 +69,28 @@ func ReadField(dir, colorBy string) (map[string]float64, string, error) {
 		return v, "F to " + node, err
 	}
 	return nil, "", fmt.Errorf("%w %q: use surface, side, temperature, heat-flux, ambient or vf:NODE", ErrUnknownColoring, colorBy)
+}
+
+// MatchField checks that the values read from results folder dir are of
+// these nodes: every name a node of the model and every node given. Results of
+// another model, or of a facet-level run drawn on surface nodes, are
+// refused instead of painted.
+func MatchField(values map[string]float64, nodes []raytrace.Node, dir string) error {
+	known := make(map[string]bool, len(nodes))
+	for _, n := range nodes {
+		known[n.Name] = true
+	}
+	for name := range values {
+		if !known[name] {
+			return fmt.Errorf("the results in %s are of another model: they have a node %q this model does not (a facet-level run, or other meshes?)", dir, name)
+		}
+	}
+	if len(values) < len(nodes) {
+		for _, n := range nodes {
+			if _, ok := values[n.Name]; !ok {
+				return fmt.Errorf("the results in %s are of another model: they have no value for node %s", dir, n.Name)
+			}
+		}
+	}
+	return nil
 }
