@@ -251,7 +251,9 @@ func TestReplicatesAddUp(t *testing.T) {
 // NAME#k and NAME#k.back, cannot clash: every one ends in its facet.)
 func TestNodeNamesUnambiguous(t *testing.T) {
 	v := func(x, y, z float64) geometry.Vec3 { return geometry.Vec3{X: x, Y: y, Z: z} }
-	rect := func(name string, z float64) *mesh.Mesh { return mesh.Rectangle(name, v(0, 0, z), v(1, 0, 0), v(0, 1, 0), 1, 1) }
+	rect := func(name string, z float64) *mesh.Mesh {
+		return mesh.Rectangle(name, v(0, 0, z), v(1, 0, 0), v(0, 1, 0), 1, 1)
+	}
 	join := func(ms ...*mesh.Mesh) *mesh.Mesh {
 		out := &mesh.Mesh{}
 		for _, m := range ms {
