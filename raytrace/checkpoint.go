@@ -3,6 +3,7 @@ package raytrace
 import (
 	"cmp"
 	"fmt"
+	"math"
 	"slices"
 )
 
@@ -68,10 +69,13 @@ func compareUnits(a, b UnitID) int {
 }
 
 // resume starts r from a checkpoint of the same nodes and settings.
-func (r *Result) resume(ck *Checkpoint) error {
+func (r *Result) resume(ck *Checkpoint, surfaces int) error {
 	n := len(r.Nodes)
 	if len(ck.Targets) != n || len(ck.Tally.Rays) != n || len(ck.Replicas) != len(r.Replicas) {
 		return fmt.Errorf("the checkpoint has %d nodes and %d replicates; this run has %d and %d", len(ck.Targets), len(ck.Replicas), n, len(r.Replicas))
+	}
+	if err := ck.Check(n, surfaces, r.Options); err != nil {
+		return err
 	}
 	r.Targets = slices.Clone(ck.Targets)
 	r.done = slices.Clone(ck.Done)
@@ -125,6 +129,9 @@ func Merge(parts []*Checkpoint, o Options) (*Checkpoint, error) {
 	for k, p := range parts {
 		if !slices.Equal(p.Targets, first.Targets) || len(p.Replicas) != len(first.Replicas) {
 			return nil, fmt.Errorf("part %d was traced with other targets or replicates than part 0", k)
+		}
+		if err := p.Check(len(first.Targets), math.MaxInt32, o); err != nil {
+			return nil, fmt.Errorf("part %d: %w", k, err)
 		}
 		out.Done = append(out.Done, p.Done...)
 		addTally(&out.Tally, &p.Tally)
@@ -193,4 +200,91 @@ func (ck *Checkpoint) Complete(o Options) bool {
 		}
 	}
 	return slices.Equal(want, ck.Done)
+}
+
+// Check verifies that ck is a consistent record of a run of nodes nodes on a
+// model of surfaces surfaces with settings o: sizes agree, every done unit
+// belongs to the plan of ck's targets, each node's rays are exactly the
+// rays of its done units, every ray is counted once (hits, escapes and
+// back-face hits add up to the rays), and the replicates add up to the
+// pooled tally. A tally file that passes its checksum may still have been
+// edited; this is what keeps such a file from double counting or crashing
+// a solve.
+func (ck *Checkpoint) Check(nodes, surfaces int, o Options) error {
+	if err := o.defaults(); err != nil {
+		return err
+	}
+	bad := func(format string, args ...any) error {
+		return fmt.Errorf("%w: %s", ErrTallyFile, fmt.Sprintf(format, args...))
+	}
+	if len(ck.Targets) != nodes {
+		return bad("targets for %d nodes, the model has %d", len(ck.Targets), nodes)
+	}
+	if o.Replicates > 0 && len(ck.Replicas) != o.Replicates {
+		return bad("%d replicates, the settings say %d", len(ck.Replicas), o.Replicates)
+	}
+	for i, t := range ck.Targets {
+		if t < 0 || t > o.MaxRays {
+			return bad("node %d has a target of %d rays, outside [0, %d]", i, t, o.MaxRays)
+		}
+	}
+	plan := make(map[UnitID]bool)
+	for _, u := range planUnits(ck.Targets, &o) {
+		plan[u] = true
+	}
+	rays := make([]int64, nodes)
+	for k, u := range ck.Done {
+		if !plan[u] {
+			return bad("done unit %d (node %d, rays %d–%d) is not in the plan of its targets", k, u.Node, u.Lo, u.Hi)
+		}
+		if k > 0 && compareUnits(ck.Done[k-1], u) >= 0 {
+			return bad("done units are not in order, or repeated, at unit %d", k)
+		}
+		rays[u.Node] += u.Hi - u.Lo
+	}
+	check := func(t *Tally, what string, wantRays []int64) error {
+		if len(t.Rays) != nodes || len(t.Escaped) != nodes || len(t.Hits) != nodes || len(t.Back) != nodes {
+			return bad("the %s tally has rows for %d nodes, the model has %d", what, len(t.Rays), nodes)
+		}
+		for i := range nodes {
+			if wantRays != nil && t.Rays[i] != wantRays[i] {
+				return bad("node %d: the %s tally has %d rays, its done units %d", i, what, t.Rays[i], wantRays[i])
+			}
+			if !t.Hits[i].Increasing(nodes) || !t.Back[i].Increasing(surfaces) {
+				return bad("node %d: a %s row has columns out of order or out of range", i, what)
+			}
+			sum := t.Escaped[i]
+			for _, row := range []*Row{&t.Hits[i], &t.Back[i]} {
+				for _, c := range row.Val {
+					if c < 0 || sum > math.MaxInt64-c {
+						return bad("node %d: a %s count is negative or overflows", i, what)
+					}
+					sum += c
+				}
+			}
+			if t.Escaped[i] < 0 || sum != t.Rays[i] {
+				return bad("node %d: the %s tally counts %d outcomes for %d rays", i, what, sum, t.Rays[i])
+			}
+		}
+		return nil
+	}
+	if err := check(&ck.Tally, "pooled", rays); err != nil {
+		return err
+	}
+	if len(ck.Replicas) > 0 {
+		sum := Tally{Rays: make([]int64, nodes), Escaped: make([]int64, nodes), Hits: make([]Row, nodes), Back: make([]Row, nodes)}
+		for k := range ck.Replicas {
+			if err := check(&ck.Replicas[k], fmt.Sprintf("replicate %d", k), nil); err != nil {
+				return err
+			}
+			addTally(&sum, &ck.Replicas[k])
+		}
+		for i := range nodes {
+			if sum.Rays[i] != ck.Tally.Rays[i] || sum.Escaped[i] != ck.Tally.Escaped[i] ||
+				!slices.Equal(sum.Hits[i].Col, ck.Tally.Hits[i].Col) || !slices.Equal(sum.Hits[i].Val, ck.Tally.Hits[i].Val) {
+				return bad("node %d: the replicates do not add up to the pooled tally", i)
+			}
+		}
+	}
+	return nil
 }

@@ -149,5 +149,49 @@ func FuzzReadTallyFile(f *testing.F) {
 		if !bytes.Equal(again.Bytes(), data) {
 			t.Fatalf("read %d bytes, wrote back %d different ones", len(data), again.Len())
 		}
+		ck.Check(len(ck.Targets), 8, Options{Settings: Settings{Rays: 500, BatchSize: 128, Replicates: len(ck.Replicas)}}) // must not panic
 	})
+}
+
+// Tally files edited by hand (and given a fresh checksum) are refused by
+// Check, never double counted, never a crash: each forgery below passes the
+// file format and fails the cross-checks.
+func TestCheckRefusesForgedTallies(t *testing.T) {
+	m := ReferenceCases()[1].Mesh
+	o := baseOpts()
+	r, err := Estimate(context.Background(), m, o)
+	if err != nil {
+		t.Fatal(err)
+	}
+	good := r.Checkpoint()
+	nodes, surfaces := len(r.Nodes), len(m.Surfaces)
+	if err := good.Check(nodes, surfaces, o); err != nil {
+		t.Fatalf("a genuine checkpoint: %v", err)
+	}
+	forge := func(edit func(ck *Checkpoint)) *Checkpoint {
+		var b bytes.Buffer
+		WriteTallyFile(&b, &good, nil)
+		ck, _, err := ReadTallyFile(b.Bytes())
+		if err != nil {
+			t.Fatal(err)
+		}
+		edit(ck)
+		return ck
+	}
+	tests := map[string]func(ck *Checkpoint){
+		"more rays than done units":   func(ck *Checkpoint) { ck.Tally.Rays[0] += 10; ck.Tally.Escaped[0] += 10 },
+		"a unit done twice":           func(ck *Checkpoint) { ck.Done = append(ck.Done, ck.Done[len(ck.Done)-1]) },
+		"a unit not in the plan":      func(ck *Checkpoint) { ck.Done[0].Hi++ },
+		"a back-face surface too far": func(ck *Checkpoint) { ck.Tally.Back[0].Append(int32(surfaces+5), 0) },
+		"hits beyond the nodes":       func(ck *Checkpoint) { ck.Tally.Hits[0].Append(int32(nodes), 0) },
+		"a count that does not add":   func(ck *Checkpoint) { ck.Tally.Hits[1].Val[0]++ },
+		"replicates off the pool":     func(ck *Checkpoint) { ck.Replicas[0].Hits[0].Val[0]++; ck.Replicas[0].Escaped[0]-- },
+		"a node missing":              func(ck *Checkpoint) { ck.Targets = ck.Targets[:1] },
+		"a target past the maximum":   func(ck *Checkpoint) { ck.Targets[0] = o.WithDefaults().MaxRays + 1 },
+	}
+	for name, edit := range tests {
+		if err := forge(edit).Check(nodes, surfaces, o); !errors.Is(err, ErrTallyFile) {
+			t.Errorf("%s: Check says %v", name, err)
+		}
+	}
 }

@@ -118,7 +118,7 @@ func Estimate(ctx context.Context, m *mesh.Mesh, opts Options) (*Result, error) 
 		r.Targets[i] = opts.Rays
 	}
 	if ck := opts.Resume; ck != nil {
-		if err := r.resume(ck); err != nil {
+		if err := r.resume(ck, len(m.Surfaces)); err != nil {
 			return nil, err
 		}
 	}

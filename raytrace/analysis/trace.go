@@ -129,6 +129,9 @@ func (in *Input) FromTallies(ck *raytrace.Checkpoint, old *Record) (*Traced, err
 	if d := rec.Differences(old); len(d) > 0 {
 		return nil, &MismatchError{Differences: d}
 	}
+	if err := ck.Check(len(nodes), len(in.Mesh.Surfaces), in.Options()); err != nil {
+		return nil, err
+	}
 	res, err := raytrace.NewResult(nodes, ck.Tally, ck.Replicas, in.Options())
 	if err != nil {
 		return nil, err
