@@ -22,7 +22,7 @@ Monte Carlo ray tracing and writes, in the output folder:
 
   viewfactors.csv            square matrix, one row per emitting node
   viewfactors_halfwidth.csv  the same shape: confidence-interval half-widths
-  viewfactors_pairs.csv      from,to,F,stderr,halfwidth,hits,rays per non-zero pair
+  viewfactors_pairs.csv      from,to,F,F_lo,F_hi,stderr,halfwidth,hits,rays per non-zero pair
   summary.json               settings, input hash, rays, timings, row sums, warnings
 
 A node is a surface (or each facet with --facets); a two-sided surface adds

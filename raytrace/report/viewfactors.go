@@ -55,13 +55,15 @@ func writeViewFactors(dir string, res *raytrace.Result) ([]string, error) {
 	}
 	err := atomicfile.Write(filepath.Join(dir, "viewfactors_pairs.csv"), func(w io.Writer) error {
 		lw := newLineWriter(w)
-		lw.buf = append(lw.buf, "from,to,F,stderr,halfwidth,hits,rays\n"...)
+		lw.buf = append(lw.buf, "from,to,F,F_lo,F_hi,stderr,halfwidth,hits,rays\n"...)
 		var werr error
 		for i, n := range res.Nodes {
 			res.Row(i, func(j int, f raytrace.Factor) {
 				lw.name(n.Name)
 				lw.name(cols[j])
 				lw.float(f.F)
+				lw.float(f.Lo) // the Wilson interval is not centred on F
+				lw.float(f.Hi)
 				lw.float(f.StdErr)
 				lw.float(f.HalfWidth)
 				lw.int(f.Hits)
