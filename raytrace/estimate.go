@@ -96,6 +96,10 @@ func Estimate(ctx context.Context, m *mesh.Mesh, opts Options) (*Result, error) 
 	if err != nil {
 		return nil, err
 	}
+	if u := plannedUnits(len(nm.nodes), opts); u > maxUnits {
+		return nil, fmt.Errorf("%d nodes with up to %d rays each make %d work units of at most %d rays, more than the %d a run may plan: use fewer rays per node (or surface nodes instead of facets)",
+			len(nm.nodes), opts.planRays(), u, opts.BatchSize, maxUnits)
+	}
 	if opts.FacetNodes && opts.MemoryLimit > 0 {
 		if need := plannedBytes(len(m.Facets), len(nm.nodes), opts); need > opts.MemoryLimit {
 			return nil, fmt.Errorf("facet mode with %d nodes needs about %.1f GiB for its tallies and tree, more than the %.1f GiB available; use fewer rays, surface nodes, or a machine with more memory",
@@ -176,15 +180,40 @@ func (r *Result) NextTargets() (next []int64, more bool) {
 	return next, more
 }
 
-// plannedBytes estimates a facet-mode run's memory: the tree, emitter data,
-// and sparse rows of at most min(nodes, rays) entries of 12 bytes per node.
-func plannedBytes(facets, nodes int, o Options) int64 {
-	rays := o.Rays
+// planRays is the most rays a node can get: Rays, or MaxRays with a
+// HalfWidth target.
+func (o *Options) planRays() int64 {
 	if o.HalfWidth > 0 {
-		rays = o.MaxRays
+		return o.MaxRays
 	}
+	return o.Rays
+}
+
+// maxUnits bounds the work units a run plans (24 bytes each, and as many
+// map entries when resuming): memory follows the data, never a count typed
+// into a flag.
+const maxUnits = 1 << 23
+
+// plannedUnits is the most work units a run of o over nodes nodes can plan:
+// each node's rays in batches, every round's end a cut of its own.
+func plannedUnits(nodes int, o Options) int64 {
+	rays := o.planRays()
+	rounds := int64(1)
+	for r := o.Rays; r < rays; r *= 2 {
+		rounds++
+	}
+	return int64(nodes) * ((rays+o.BatchSize-1)/o.BatchSize + rounds)
+}
+
+// plannedBytes estimates a facet-mode run's memory: the tree, emitter data,
+// and per tally (the pooled one and each replicate's) sparse rows of at
+// most min(nodes, rays) entries of 12 bytes per node, twice while rows are
+// merged.
+func plannedBytes(facets, nodes int, o Options) int64 {
+	rays := o.planRays()
 	perRow := min(int64(nodes), rays+1)
-	return int64(facets)*(40+32+96+16) + int64(nodes)*(perRow*12*2+64)
+	tallies := int64(1 + o.Replicates)
+	return int64(facets)*(40+32+96+16) + tallies*int64(nodes)*(perRow*12*2+64)
 }
 
 // unit is one piece of work: rays [lo, hi) of node, all in one batch.

@@ -280,3 +280,12 @@ func TestNodeNamesUnambiguous(t *testing.T) {
 		t.Errorf("x.back is a fine name when x is one-sided: %v", err)
 	}
 }
+
+// A count typed into a flag cannot claim memory: 10¹³ rays per node are
+// refused before anything is planned, with the arithmetic in the message.
+func TestHugeRayCountRefused(t *testing.T) {
+	_, err := Estimate(context.Background(), ReferenceCases()[0].Mesh, Options{Settings: Settings{Rays: 1e13, Seed: 1}})
+	if err == nil || !strings.Contains(err.Error(), "work units") {
+		t.Errorf("10¹³ rays per node: %v", err)
+	}
+}

@@ -47,8 +47,8 @@ AZIMUTH,ELEVATION in degrees (default 35,25).`,
 			return err
 		}
 		var w, h int
-		if _, err := fmt.Sscanf(*size, "%dx%d", &w, &h); err != nil || w < 64 || h < 64 || w*h > 64e6 {
-			return usagef("--size %q: give WxH, each at least 64, at most 64 megapixels", *size)
+		if _, err := fmt.Sscanf(*size, "%dx%d", &w, &h); err != nil || w < 64 || h < 64 || w > 1<<14 || h > 1<<14 || w*h > 64e6 {
+			return usagef("--size %q: give WxH, each from 64 to 16384, at most 64 megapixels", *size)
 		}
 		view, err := render.ParseView(*viewFlag)
 		if err != nil {

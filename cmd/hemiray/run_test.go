@@ -189,6 +189,10 @@ func TestRenderCommand(t *testing.T) {
 	if code, _, e := runCLI("render", "../../testdata/duct_bend.obj", "--color", "rainbow", "-o", out); code != 2 || !strings.Contains(e, "--color") {
 		t.Errorf("bad colouring: exit %d, %q", code, e)
 	}
+	// A size whose product overflows an int is refused, not allocated.
+	if code, _, e := runCLI("render", "../../testdata/duct_bend.obj", "--size", "4294967296x4294967296", "-o", out); code != 2 || !strings.Contains(e, "--size") {
+		t.Errorf("overflowing size: exit %d, %q", code, e)
+	}
 }
 
 // solve --viewfactors with factors given by hand: concentric spheres, whose
