@@ -12,7 +12,10 @@ type earClipper struct {
 	x, y []float64 // projected corners
 	idx  []int     // remaining corners, positions in the polygon
 	out  [][3]int32
-	work int // point-in-ear tests left before giving up (see triangulate)
+	work int // point-in-ear tests left for this polygon (see triangulate)
+	// spent counts the tests of every polygon of the file, against
+	// fileBudget: a file of many pathological faces stays bounded too.
+	spent int
 }
 
 // triangulate splits polygon poly (vertex indices into v) into len(poly)−2
@@ -22,6 +25,10 @@ type earClipper struct {
 // self-intersecting outline or a collinear one), or one that exhausts a
 // quadratic work budget, is finished as a fan, so no area is lost silently;
 // the mesh checks then report any degenerate facets.
+// fileBudget bounds the point-in-ear tests of one file's polygons (about
+// five seconds).
+var fileBudget = 1 << 30
+
 func (c *earClipper) triangulate(v []geometry.Vec3, poly []int32) [][3]int32 {
 	n := len(poly)
 	var nrm geometry.Vec3
@@ -57,8 +64,11 @@ func (c *earClipper) triangulate(v []geometry.Vec3, poly []int32) [][3]int32 {
 		c.idx = append(c.idx, i)
 	}
 	// Ear clipping is quadratic for ordinary outlines but cubic for
-	// pathological ones; past a quadratic budget the rest becomes a fan.
-	c.work = 64*n*n + 1024
+	// pathological ones; past a quadratic budget (and past the file's) the
+	// rest becomes a fan.
+	c.work = max(0, min(8*n*n+1024, fileBudget-c.spent))
+	start := c.work
+	defer func() { c.spent += start - max(c.work, 0) }()
 	for len(c.idx) > 3 {
 		ear := c.findEar()
 		if ear < 0 {
