@@ -278,3 +278,24 @@ func TestRenderRefusesOtherResults(t *testing.T) {
 		t.Errorf("render with its own results: exit %d, %q", code, e)
 	}
 }
+
+// Errors of the smoothing and the solve name the surface, not an internal
+// node number, and a node whose rays all met backs gets the diagnosis of
+// flipped normals: here a plate inside a box whose normals point out.
+func TestRunErrorsNameSurfaces(t *testing.T) {
+	dir := t.TempDir()
+	v := func(x, y, z float64) geometry.Vec3 { return geometry.Vec3{X: x, Y: y, Z: z} }
+	m := mesh.Merge("shell", mesh.Box("", geometry.Box{Max: v(1, 1, 1)}, 2, false))
+	if err := m.Append(mesh.Rectangle("plate", v(0.25, 0.25, 0.5), v(0.5, 0, 0), v(0, 0.5, 0), 1, 1)); err != nil {
+		t.Fatal(err)
+	}
+	f, _ := os.Create(filepath.Join(dir, "m.obj"))
+	mesh.WriteOBJ(f, m)
+	f.Close()
+	cs := filepath.Join(dir, "c.toml")
+	os.WriteFile(cs, []byte("[model]\nfiles = [\"m.obj\"]\n[ambient]\ntemperature = 300\n[defaults]\nemissivity = 0.5\ntemperature = 300\n"), 0o644)
+	code, _, e := runCLI("run", cs, "--rays", "2000", "--quiet", "--no-pictures", "-o", filepath.Join(dir, "o"))
+	if code != 1 || !strings.Contains(e, "plate: no ray from it reached") || !strings.Contains(e, "flipped") || strings.Contains(e, "node 1") {
+		t.Errorf("exit %d, %q", code, e)
+	}
+}

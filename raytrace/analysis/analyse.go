@@ -1,6 +1,7 @@
 package analysis
 
 import (
+	"errors"
 	"fmt"
 	"math"
 
@@ -53,7 +54,7 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 	open := res.HasAmbient()
 	sm, err := smoothTally(res, &res.Tally, open)
 	if err != nil {
-		return nil, err
+		return nil, nameNode(err, res.Nodes, res)
 	}
 	var reps []*smooth.Result
 	var notes []string
@@ -67,7 +68,7 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 	}
 	a, err := in.solve(res.Nodes, sm, reps, open, res.Options.Confidence)
 	if err != nil {
-		return nil, err
+		return nil, nameNode(err, res.Nodes, res)
 	}
 	a.Notes = append(notes, a.Notes...)
 	a.Raw, a.RawAmbient = make([]exchange.Row, len(res.Nodes)), make([]float64, len(res.Nodes))
@@ -105,7 +106,7 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 	}
 	a := &Result{Nodes: nodes, Open: open, Smoothed: sm, Info: info, AmbientT: p.AmbientT, Confidence: confidence}
 	if a.Solution, err = exchange.Solve(p); err != nil {
-		return nil, err
+		return nil, nameNode(err, nodes, nil)
 	}
 	if len(nodes) <= exchange.DenseLimit {
 		if a.S, a.ToAmbient, err = exchange.ExchangeAreas(p.Area, p.Emissivity, p.F, p.Ambient); err != nil {
@@ -158,4 +159,28 @@ func TInterval(rows [][]float64, confidence float64) []float64 {
 		out[i] = t * math.Sqrt(ss/float64(R-1)) / math.Sqrt(float64(R))
 	}
 	return out
+}
+
+// nameNode rewrites an error about node k of the smoothing or the solve to
+// name the node instead, and, when most of the node's rays met the back of
+// a one-sided surface (res given), adds the likely cause.
+func nameNode(err error, nodes []raytrace.Node, res *raytrace.Result) error {
+	k, msg := -1, ""
+	var se *smooth.NodeError
+	var ee *exchange.NodeError
+	switch {
+	case errors.As(err, &se):
+		k, msg = se.Node, se.Msg
+	case errors.As(err, &ee):
+		k, msg = ee.Node, ee.Msg
+	}
+	if k < 0 || k >= len(nodes) {
+		return err
+	}
+	out := fmt.Sprintf("%s: %s", nodes[k].Name, msg)
+	if res != nil && res.Rays[k] > 0 && 2*res.Back[k].Sum() > res.Rays[k] {
+		out += fmt.Sprintf("; %.0f%% of its rays hit the back of a one-sided surface: its normals, or a neighbour's, may be flipped (hemiray render --color side shows them; flip = true in the case fixes them)",
+			100*float64(res.Back[k].Sum())/float64(res.Rays[k]))
+	}
+	return errors.New(out)
 }

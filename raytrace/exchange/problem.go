@@ -66,6 +66,14 @@ type Solution struct {
 // Flux returns the net outgoing flux of node k in W/m².
 func (s *Solution) Flux(k int) float64 { return s.q[k] }
 
+// NodeError is a problem with one node (Node is its index).
+type NodeError struct {
+	Node int
+	Msg  string
+}
+
+func (e *NodeError) Error() string { return fmt.Sprintf("exchange: node %d: %s", e.Node, e.Msg) }
+
 // ErrNoTemperature is returned for a closed enclosure without any fixed
 // temperature: its temperatures are undetermined.
 var ErrNoTemperature = errors.New("exchange: a closed enclosure needs at least one node with a fixed temperature (or an ambient)")
@@ -86,7 +94,7 @@ func (p *Problem) check() ([]int, error) {
 		}
 		for _, k := range members {
 			if group[k] >= 0 {
-				return nil, fmt.Errorf("exchange: node %d is in two groups", k)
+				return nil, &NodeError{k, "in two groups"}
 			}
 			group[k] = g
 		}
@@ -97,10 +105,10 @@ func (p *Problem) check() ([]int, error) {
 	fixedT := false
 	for k := range n {
 		if !(p.Area[k] > 0) {
-			return nil, fmt.Errorf("exchange: node %d has area %v", k, p.Area[k])
+			return nil, &NodeError{k, fmt.Sprintf("area %v", p.Area[k])}
 		}
 		if e := p.Emissivity[k]; !(e > 0 && e <= 1) {
-			return nil, fmt.Errorf("exchange: node %d: emissivity %v is outside (0, 1]", k, e)
+			return nil, &NodeError{k, fmt.Sprintf("emissivity %v is outside (0, 1]", e)}
 		}
 		if !p.F[k].Increasing(n) {
 			return nil, fmt.Errorf("exchange: row %d of F: columns must increase within [0, %d), one value each", k, n)
@@ -111,12 +119,12 @@ func (p *Problem) check() ([]int, error) {
 		}
 		if c.Kind == Temperature {
 			if !(c.Value > 0) {
-				return nil, fmt.Errorf("exchange: node %d: temperature %v K must be positive", k, c.Value)
+				return nil, &NodeError{k, fmt.Sprintf("temperature %v K must be positive", c.Value)}
 			}
 			fixedT = true
 		}
 		if math.IsNaN(c.Value) || math.IsInf(c.Value, 0) {
-			return nil, fmt.Errorf("exchange: node %d: condition value %v", k, c.Value)
+			return nil, &NodeError{k, fmt.Sprintf("condition value %v", c.Value)}
 		}
 	}
 	open := false

@@ -175,7 +175,7 @@ func Solve(p Problem) (*Solution, error) {
 			e4 = sol.J[k] + (1-eps)/eps*sol.q[k]
 		}
 		if !(e4 >= 0) {
-			return nil, fmt.Errorf("exchange: the condition on node %d cannot be met: it needs σT⁴ = %.4g W/m² < 0 (it must absorb more than its surroundings can give)", k, e4)
+			return nil, &NodeError{k, fmt.Sprintf("its condition cannot be met: it needs σT⁴ = %.4g W/m² < 0 (it must absorb more than its surroundings can give)", e4)}
 		}
 		sol.T[k] = math.Sqrt(math.Sqrt(e4 / Sigma))
 	}

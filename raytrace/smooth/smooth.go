@@ -41,6 +41,14 @@ type Result struct {
 	Iterations                          int
 }
 
+// NodeError is a problem with the counts of one node (Node is its index).
+type NodeError struct {
+	Node int
+	Msg  string
+}
+
+func (e *NodeError) Error() string { return fmt.Sprintf("smooth: node %d: %s", e.Node, e.Msg) }
+
 // ErrNotConverged is returned when Newton's method fails to meet the tolerance.
 var ErrNotConverged = errors.New("smooth: Newton iteration did not converge")
 
@@ -64,10 +72,10 @@ func Smooth(in Counts) (*Result, error) {
 	}
 	for i := range n {
 		if !(in.Area[i] > 0) || in.Rays[i] <= 0 {
-			return nil, fmt.Errorf("smooth: node %d has area %v and %d rays; both must be positive", i, in.Area[i], in.Rays[i])
+			return nil, &NodeError{i, fmt.Sprintf("area %v and %d rays; both must be positive", in.Area[i], in.Rays[i])}
 		}
 		if in.Hits[i].Sum() == 0 && amb(i) == 0 {
-			return nil, fmt.Errorf("smooth: node %d has no ray that reached a node or the ambient", i)
+			return nil, &NodeError{i, "no ray from it reached a node or the ambient"}
 		}
 	}
 	for i := range n {
