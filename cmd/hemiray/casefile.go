@@ -48,11 +48,34 @@ func readCase(path string) (*analysis.Case, *caseDoc, error) {
 			return nil, nil, caseError(path, line, fmt.Sprintf("unknown key %q (README.md lists the keys)", strings.Join(e.Key(), ".")))
 		case errors.As(err, &de):
 			line, _ := de.Position()
-			return nil, nil, caseError(path, line, strings.TrimPrefix(de.Error(), "toml: "))
+			return nil, nil, caseError(path, line, typeMessage(strings.TrimPrefix(de.Error(), "toml: "), doc, line))
 		}
 		return nil, nil, caseError(path, 0, err.Error())
 	}
 	return c, cd, nil
+}
+
+// typeMessage turns the TOML library's "cannot decode TOML string into
+// struct field analysis.RaySpec.PerNode of type int64" into words about the
+// key on that line: "per_node: expected a whole number, found a string".
+func typeMessage(msg string, doc []byte, line int) string {
+	var found, field, goType string
+	if n, _ := fmt.Sscanf(msg, "cannot decode TOML %s into struct field %s of type %s", &found, &field, &goType); n != 3 {
+		return msg
+	}
+	want := map[string]string{"int64": "a whole number", "int": "a whole number", "uint64": "a whole number",
+		"float64": "a number", "*float64": "a number", "bool": "true or false", "*bool": "true or false",
+		"string": "a string in quotes", "[]string": `a list of strings, like ["a.obj", "b.stl"]`}[goType]
+	if want == "" {
+		return msg
+	}
+	key := field
+	if lines := strings.Split(string(doc), "\n"); line > 0 && line <= len(lines) {
+		if k, _, ok := strings.Cut(lines[line-1], "="); ok {
+			key = strings.Trim(strings.TrimSpace(k), `"`)
+		}
+	}
+	return fmt.Sprintf("%s: expected %s, found a TOML %s", key, want, found)
 }
 
 // openCase reads a case file and opens its model.

@@ -60,6 +60,8 @@ func TestTraceBadInput(t *testing.T) {
 		{"two conditions", []string{"trace", write("c.toml", "[model]\nfiles = [\""+mesh+"\"]\n[surfaces.floor]\ntemperature = 300\nadiabatic = true\n")}, 1, "c.toml:3: [surfaces.floor] sets 2 boundary conditions"},
 		{"negative temperature", []string{"trace", write("t.toml", "[model]\nfiles = [\""+mesh+"\"]\n[defaults]\ntemperature = -4\n")}, 1, "t.toml:4: temperature -4 K must be positive"},
 		{"syntax", []string{"trace", write("x.toml", "[model\nfiles = 1\n")}, 1, "x.toml:1:"},
+		{"wrong type", []string{"trace", write("w.toml", "[model]\nfiles = [\""+mesh+"\"]\n[rays]\nper_node = \"many\"\n")}, 1, "w.toml:4: per_node: expected a whole number, found a TOML string"},
+		{"BOM", []string{"trace", write("bom.toml", "\xef\xbb\xbf[model]\nfiles = [\""+mesh+"\"]\n[rays]\nper_node = -1\n")}, 1, "bom.toml:4: per_node must be positive"},
 		{"missing mesh", []string{"trace", write("m.toml", "[model]\nfiles = [\"nope.stl\"]\n")}, 1, "nope.stl"},
 		{"bad two-sided", []string{"trace", mesh, "--two-sided", "roof"}, 1, "two-sided surface \"roof\" is not in the model"},
 		{"bad halfwidth", []string{"trace", mesh, "--halfwidth", "0.7"}, 2, "--halfwidth"},
