@@ -24,8 +24,7 @@ DIR/results. The case file is a commented starting point for your own.`,
 		Flags: flag.NewFlagSet("demo", flag.ContinueOnError),
 	}
 	out := c.Flags.String("o", "hemiray-demo", "folder for the scenario and its results")
-	var tf traceFlags
-	tf.register(flag.NewFlagSet("demo-trace", flag.ContinueOnError))
+	tf := newTraceFlags()
 	c.Flags.IntVar(&tf.threads, "threads", tf.threads, "worker threads")
 	c.Flags.BoolVar(&tf.quiet, "quiet", false, "no progress output")
 	c.Flags.BoolVar(&tf.noPictures, "no-pictures", false, "do not write the PNG pictures and model.vtp")
@@ -43,7 +42,7 @@ DIR/results. The case file is a commented starting point for your own.`,
 		}
 		fmt.Fprintf(stdout, "demo scenario written to %s (case.toml, enclosure.obj, board.stl, module.stl)\n\n", *out)
 		tf.checkpointEvery = time.Minute
-		j, err := loadInput(flag.NewFlagSet("demo-run", flag.ContinueOnError), &tf, []string{casePath})
+		j, err := loadInput(flag.NewFlagSet("demo-run", flag.ContinueOnError), tf, []string{casePath})
 		if err != nil {
 			return err
 		}

@@ -36,25 +36,47 @@ type traceFlags struct {
 	noPictures      bool
 }
 
-func (tf *traceFlags) register(fs *flag.FlagSet) {
-	fs.StringVar(&tf.units, "units", "m", "length unit of mesh files given directly: m, cm, mm, in or ft")
-	fs.BoolVar(&tf.byMaterial, "by-material", false, "OBJ given directly: one surface per usemtl material")
-	fs.Int64Var(&tf.rays, "rays", 100000, "rays per emitting node (the first round with --halfwidth)")
-	fs.Float64Var(&tf.halfWidth, "halfwidth", 0, "trace in rounds until every view factor's interval half-width is at most this")
-	fs.Int64Var(&tf.maxRays, "max-rays", 0, "most rays per node with --halfwidth (default 64 × --rays)")
-	fs.Float64Var(&tf.confidence, "confidence", 0.95, "confidence level of the intervals")
-	fs.Uint64Var(&tf.seed, "seed", 1, "random seed: the same seed gives the same numbers")
-	fs.IntVar(&tf.threads, "threads", runtime.GOMAXPROCS(0), "worker threads (results do not depend on it)")
-	fs.BoolVar(&tf.facets, "facets", false, "make every facet its own node")
-	fs.StringVar(&tf.twoSided, "two-sided", "", "comma-separated surfaces whose back is a node NAME.back (meshes given directly)")
-	fs.StringVar(&tf.out, "o", "", "output folder (default: the case's output.dir, else hemiray-out)")
-	fs.BoolVar(&tf.quiet, "quiet", false, "no progress output")
-	fs.DurationVar(&tf.checkpointEvery, "checkpoint-every", time.Minute, "write the checkpoint DIR/tallies.bin this often (and on Ctrl-C or SIGTERM)")
-	fs.BoolVar(&tf.resume, "resume", false, "continue from the checkpoint in the output folder")
-	fs.DurationVar(&tf.timeLimit, "time-limit", 0, "stop cleanly after this long and write the precision reached (e.g. 7h30m)")
-	fs.StringVar(&tf.shard, "shard", "", "trace only share I of N (I/N, from 0) and write only DIR/tallies.bin; combine with merge")
-	fs.StringVar(&tf.plan, "plan", "", "with --shard: the next --halfwidth round's plan.json written by merge")
-	fs.BoolVar(&tf.noPictures, "no-pictures", false, "run, demo: do not write the PNG pictures and model.vtp")
+// newTraceFlags returns the flags with their defaults, registered or not.
+func newTraceFlags() *traceFlags {
+	return &traceFlags{units: "m", rays: 100000, confidence: 0.95, seed: 1, threads: runtime.GOMAXPROCS(0), checkpointEvery: time.Minute}
+}
+
+// The flag groups; each command registers the ones it takes, so that its
+// help lists only those.
+const (
+	meshFlags  = 1 << iota // --units, --by-material, --two-sided: mesh files given directly
+	rayFlags               // what fixes the tallies: --rays, --halfwidth, …
+	runFlags               // how this process traces: --threads, --resume, --shard, …
+	writeFlags             // -o DIR, --quiet, --no-pictures
+)
+
+func (tf *traceFlags) register(fs *flag.FlagSet, groups int) {
+	if groups&meshFlags != 0 {
+		fs.StringVar(&tf.units, "units", tf.units, "length unit of mesh files given directly: m, cm, mm, in or ft")
+		fs.BoolVar(&tf.byMaterial, "by-material", false, "OBJ given directly: one surface per usemtl material")
+		fs.StringVar(&tf.twoSided, "two-sided", "", "comma-separated surfaces whose back is a node NAME.back (meshes given directly)")
+	}
+	if groups&rayFlags != 0 {
+		fs.Int64Var(&tf.rays, "rays", tf.rays, "rays per emitting node (the first round with --halfwidth)")
+		fs.Float64Var(&tf.halfWidth, "halfwidth", 0, "trace in rounds until every view factor's interval half-width is at most this")
+		fs.Int64Var(&tf.maxRays, "max-rays", 0, "most rays per node with --halfwidth (default 64 × --rays)")
+		fs.Float64Var(&tf.confidence, "confidence", tf.confidence, "confidence level of the intervals")
+		fs.Uint64Var(&tf.seed, "seed", tf.seed, "random seed: the same seed gives the same numbers")
+		fs.BoolVar(&tf.facets, "facets", false, "make every facet its own node")
+	}
+	if groups&runFlags != 0 {
+		fs.IntVar(&tf.threads, "threads", tf.threads, "worker threads (results do not depend on it)")
+		fs.DurationVar(&tf.checkpointEvery, "checkpoint-every", tf.checkpointEvery, "write the checkpoint DIR/tallies.bin this often (and on Ctrl-C or SIGTERM)")
+		fs.BoolVar(&tf.resume, "resume", false, "continue from the checkpoint in the output folder")
+		fs.DurationVar(&tf.timeLimit, "time-limit", 0, "stop cleanly after this long and write the precision reached (e.g. 7h30m)")
+		fs.StringVar(&tf.shard, "shard", "", "trace only share I of N (I/N, from 0) and write only DIR/tallies.bin; combine with merge")
+		fs.StringVar(&tf.plan, "plan", "", "with --shard: the next --halfwidth round's plan.json written by merge")
+	}
+	if groups&writeFlags != 0 {
+		fs.StringVar(&tf.out, "o", "", "output folder (default: the case's output.dir, else hemiray-out)")
+		fs.BoolVar(&tf.quiet, "quiet", false, "no progress output")
+		fs.BoolVar(&tf.noPictures, "no-pictures", false, "do not write the PNG pictures and model.vtp")
+	}
 }
 
 // job is an input with how this process runs it and where results go.

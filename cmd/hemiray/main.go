@@ -1,10 +1,14 @@
 package main
 
 import (
+	"runtime"
+
 	"context"
 	"errors"
 	"flag"
 	"fmt"
+	"github.com/hemiray/hemiray/raytrace"
+	"github.com/hemiray/hemiray/raytrace/analysis"
 	"io"
 	"os"
 	"os/signal"
@@ -30,7 +34,7 @@ func (e usageError) Error() string { return e.msg }
 func usagef(format string, args ...any) error { return usageError{fmt.Sprintf(format, args...)} }
 
 func commands() []*command {
-	return []*command{inspectCommand(), traceCommand(), runCommand(), mergeCommand(), solveCommand(), renderCommand(), demoCommand(), verifyCommand()}
+	return []*command{inspectCommand(), traceCommand(), runCommand(), mergeCommand(), solveCommand(), renderCommand(), demoCommand(), verifyCommand(), versionCommand()}
 }
 
 func main() {
@@ -123,4 +127,18 @@ func parseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
 		pos = append(pos, args[0])
 		args = args[1:]
 	}
+}
+
+func versionCommand() *command {
+	c := &command{Name: "version", UsageLine: "version", Short: "print hemiray's version",
+		Long:  "Version prints hemiray's version, the tally-file settings version and the Go release it was built with.",
+		Flags: flag.NewFlagSet("version", flag.ContinueOnError)}
+	c.Run = func(ctx context.Context, args []string, stdout, stderr io.Writer) error {
+		if _, err := parseArgs(c.Flags, args); err != nil {
+			return err
+		}
+		fmt.Fprintf(stdout, "hemiray %s (tally settings version %d, %s)\n", analysis.Version, raytrace.SettingsVersion, runtime.Version())
+		return nil
+	}
+	return c
 }

@@ -78,3 +78,18 @@ func TestInspectBadInputExits(t *testing.T) {
 		}
 	}
 }
+
+// Each command's help lists its own flags only, and version answers.
+func TestHelpPerCommand(t *testing.T) {
+	_, out, _ := runCLI("help", "render")
+	if strings.Contains(out, "-rays") || strings.Contains(out, "-shard") || !strings.Contains(out, "-size") || !strings.Contains(out, "picture file") {
+		t.Errorf("help render:\n%s", out)
+	}
+	_, out, _ = runCLI("help", "solve")
+	if strings.Contains(out, "-shard") || strings.Contains(out, "-units") || !strings.Contains(out, "-viewfactors") {
+		t.Errorf("help solve:\n%s", out)
+	}
+	if code, out, _ := runCLI("version"); code != 0 || !strings.HasPrefix(out, "hemiray 0.") {
+		t.Errorf("version: exit %d, %q", code, out)
+	}
+}

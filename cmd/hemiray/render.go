@@ -35,8 +35,9 @@ colour bar. --view is +x, -x, +y, -y, +z, -z (look from that side) or
 AZIMUTH,ELEVATION in degrees (default 35,25).`,
 		Flags: flag.NewFlagSet("render", flag.ContinueOnError),
 	}
-	var tf traceFlags
-	tf.register(c.Flags)
+	tf := newTraceFlags()
+	tf.register(c.Flags, meshFlags)
+	out := c.Flags.String("o", "", "picture file (default model_COLOR.png)")
 	colorBy := c.Flags.String("color", "surface", "surface, side, temperature, heat-flux, ambient or vf:NODE")
 	results := c.Flags.String("results", "", "results folder for field colourings (default: the case's output.dir, else hemiray-out)")
 	viewFlag := c.Flags.String("view", "35,25", "+x … -z, or AZIMUTH,ELEVATION in degrees")
@@ -54,14 +55,14 @@ AZIMUTH,ELEVATION in degrees (default 35,25).`,
 		if err != nil {
 			return usageError{err.Error()}
 		}
-		j, err := loadInput(c.Flags, &tf, pos)
+		j, err := loadInput(c.Flags, tf, pos)
 		if err != nil {
 			return err
 		}
 		in := j.in
-		out := tf.out
-		if out == "" {
-			out = "model_" + strings.ReplaceAll(*colorBy, ":", "_") + ".png"
+		file := *out
+		if file == "" {
+			file = "model_" + strings.ReplaceAll(*colorBy, ":", "_") + ".png"
 		}
 		p := report.NewPicture(in.Mesh, in.Settings.TwoSided)
 		var img *image.RGBA
@@ -91,10 +92,10 @@ AZIMUTH,ELEVATION in degrees (default 35,25).`,
 			}
 			img = p.ByField(view, w, h, nodes, values, label)
 		}
-		if err := report.WritePNG(out, img); err != nil {
+		if err := report.WritePNG(file, img); err != nil {
 			return err
 		}
-		fmt.Fprintf(stdout, "wrote %s (%d×%d)\n", out, w, h)
+		fmt.Fprintf(stdout, "wrote %s (%d×%d)\n", file, w, h)
 		return nil
 	}
 	return c

@@ -34,8 +34,8 @@ rays, each smoothed and solved (a Student-t interval at the case's
 confidence). The README documents the case file.`,
 		Flags: flag.NewFlagSet("run", flag.ContinueOnError),
 	}
-	var tf traceFlags
-	tf.register(c.Flags)
+	tf := newTraceFlags()
+	tf.register(c.Flags, rayFlags|runFlags|writeFlags)
 	replicates := c.Flags.Int("replicates", 0, fmt.Sprintf("independent replicates for heat-flow intervals (default: the case's rays.replicates, else %d)", analysis.DefaultReplicates))
 	c.Run = func(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 		pos, err := parseArgs(c.Flags, args)
@@ -45,7 +45,7 @@ confidence). The README documents the case file.`,
 		if len(pos) != 1 || !strings.EqualFold(filepath.Ext(pos[0]), ".toml") {
 			return usagef("run takes one case file (.toml)")
 		}
-		j, err := loadInput(c.Flags, &tf, pos)
+		j, err := loadInput(c.Flags, tf, pos)
 		if err != nil {
 			return err
 		}
@@ -109,8 +109,8 @@ model open. They are smoothed and solved like traced ones, without
 intervals (the file carries none).`,
 		Flags: flag.NewFlagSet("solve", flag.ContinueOnError),
 	}
-	var tf traceFlags
-	tf.register(c.Flags)
+	tf := newTraceFlags()
+	tf.register(c.Flags, rayFlags|writeFlags)
 	given := c.Flags.String("viewfactors", "", "solve with the view factors of this CSV (square or pairs layout, node names as headers) instead of saved tallies")
 	c.Run = func(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 		pos, err := parseArgs(c.Flags, args)
@@ -120,7 +120,7 @@ intervals (the file carries none).`,
 		if len(pos) != 1 || !strings.EqualFold(filepath.Ext(pos[0]), ".toml") {
 			return usagef("solve takes one case file (.toml)")
 		}
-		j, err := loadInput(c.Flags, &tf, pos)
+		j, err := loadInput(c.Flags, tf, pos)
 		if err != nil {
 			return err
 		}

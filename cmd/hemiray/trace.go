@@ -34,14 +34,14 @@ Input is a case file (see README.md) or mesh files with --units. Flags set
 on the command line override the case file.`,
 		Flags: flag.NewFlagSet("trace", flag.ContinueOnError),
 	}
-	var tf traceFlags
-	tf.register(c.Flags)
+	tf := newTraceFlags()
+	tf.register(c.Flags, meshFlags|rayFlags|runFlags|writeFlags)
 	c.Run = func(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 		files, err := parseArgs(c.Flags, args)
 		if err != nil {
 			return err
 		}
-		j, err := loadInput(c.Flags, &tf, files)
+		j, err := loadInput(c.Flags, tf, files)
 		if err != nil {
 			return err
 		}
