@@ -62,8 +62,15 @@ on the command line override the case file.`,
 	return c
 }
 
-// trace runs the job's trace with a progress display.
+// trace runs the job's trace with a progress display, after saying what
+// model was read.
 func (j *job) trace(ctx context.Context, stderr io.Writer) (*analysis.Traced, error) {
+	if !j.quiet {
+		fmt.Fprintf(stderr, "hemiray: %s\n", j.in.Describe())
+	}
+	for _, n := range j.in.Notes() {
+		fmt.Fprintf(stderr, "hemiray: note: %s\n", n)
+	}
 	progress, done := progressReporter(stderr, j.quiet)
 	j.run.Progress = progress
 	t, err := j.in.Trace(ctx, j.run)

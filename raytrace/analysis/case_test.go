@@ -42,3 +42,22 @@ func TestValidateNamesTheKey(t *testing.T) {
 		t.Errorf("a plain case: %v", err)
 	}
 }
+
+// The echo before tracing states the size in metres and the unit read, so
+// a forgotten units = "mm" shows; a two-sided back silently taking the
+// default emissivity is noted.
+func TestDescribeAndNotes(t *testing.T) {
+	c := &Case{Dir: "../../testdata", Model: ModelSpec{Files: []string{"cabinet_multi.stl"}, Units: "mm"},
+		Defaults: SurfaceSpec{Emissivity: ptr(0.9)},
+		Surfaces: map[string]SurfaceSpec{"floor": {TwoSided: ptr(true), Emissivity: ptr(0.3)}}}
+	in, err := Open(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d := in.Describe(); !strings.Contains(d, "2 surfaces") || !strings.Contains(d, "read in mm") {
+		t.Errorf("Describe: %s", d)
+	}
+	if n := in.Notes(); len(n) != 1 || !strings.Contains(n[0], `"floor.back"`) {
+		t.Errorf("Notes: %v", n)
+	}
+}

@@ -160,3 +160,36 @@ func (in *Input) Preflight() error {
 	}
 	return nil
 }
+
+// Describe says in one line what was read: surfaces, facets, total area,
+// size and the unit the files were read in — so that a forgotten
+// units = "mm" (a 400 m oven) shows before any ray is traced.
+func (in *Input) Describe() string {
+	b := in.Mesh.Bounds()
+	d := b.Max.Sub(b.Min)
+	unit := in.Settings.Units
+	if unit == "" {
+		unit = "m"
+	}
+	return fmt.Sprintf("model: %d surfaces, %d facets, total area %.4g m², size %.4g × %.4g × %.4g m (files read in %s)",
+		len(in.Mesh.Surfaces), len(in.Mesh.Facets), in.Mesh.TotalArea(), d.X, d.Y, d.Z, unit)
+}
+
+// Notes are things about the case a user may not have meant: the back of a
+// two-sided surface taking the default emissivity while its front has its
+// own.
+func (in *Input) Notes() []string {
+	if in.Case == nil {
+		return nil
+	}
+	var out []string
+	for _, name := range SurfaceNames(in.Mesh) {
+		front := in.Case.Surfaces[name]
+		back, hasBack := in.Case.Surfaces[name+".back"]
+		if in.Case.Spec(name).IsTwoSided() && front.Emissivity != nil && (!hasBack || back.Emissivity == nil) && in.Case.Defaults.Emissivity != nil {
+			out = append(out, fmt.Sprintf("the back of two-sided %s takes the default emissivity %g, its front %g: set [surfaces.%q] emissivity if the sides differ",
+				name, *in.Case.Defaults.Emissivity, *front.Emissivity, name+".back"))
+		}
+	}
+	return out
+}
