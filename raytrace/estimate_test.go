@@ -289,3 +289,27 @@ func TestHugeRayCountRefused(t *testing.T) {
 		t.Errorf("10¹³ rays per node: %v", err)
 	}
 }
+
+// In facet mode, back-face warnings come one per emitting surface and
+// target surface, not one per facet: a plate facing the back of another
+// (flipped) plate gives one line naming its worst facets.
+func TestBackFaceWarningsSummarized(t *testing.T) {
+	v := func(x, y, z float64) geometry.Vec3 { return geometry.Vec3{X: x, Y: y, Z: z} }
+	m := &mesh.Mesh{}
+	for _, p := range []*mesh.Mesh{
+		mesh.Rectangle("low", v(0, 0, 0), v(1, 0, 0), v(0, 1, 0), 4, 4),
+		mesh.Rectangle("high", v(0, 0, 0.2), v(1, 0, 0), v(0, 1, 0), 1, 1), // faces up: its back faces low
+	} {
+		if err := m.Append(p); err != nil {
+			t.Fatal(err)
+		}
+	}
+	r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 2000, Seed: 1, FacetNodes: true}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := r.Warnings([]string{"low", "high"})
+	if len(w) != 1 || !strings.Contains(w[0], "32 nodes of low") || !strings.Contains(w[0], "worst: low#") {
+		t.Errorf("warnings: %q", w)
+	}
+}

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strings"
 
 	"github.com/hemiray/hemiray/mesh"
 )
@@ -147,15 +148,44 @@ func (r *Result) BackFaces(surfaces []string) []BackFaceNote {
 const BackFaceThreshold = 0.001
 
 // Warnings returns the messages a user should see: back-face hits above
-// BackFaceThreshold of an emitter's rays, with the likely fixes.
+// BackFaceThreshold of an emitter's rays, with the likely fixes — one line
+// per emitting surface and target surface, however many facet nodes the
+// emitting surface has (the worst three named).
 func (r *Result) Warnings(surfaces []string) []string {
-	var w []string
-	for _, b := range r.BackFaces(surfaces) {
+	type pair struct {
+		from int
+		to   string
+	}
+	groups := map[pair][]BackFaceNote{}
+	var order []pair
+	nodeOf := make(map[string]int, len(r.Nodes))
+	for i, n := range r.Nodes {
+		nodeOf[n.Name] = i
+	}
+	for _, b := range r.BackFaces(surfaces) { // largest fraction first
 		if b.Fraction <= BackFaceThreshold {
+			break
+		}
+		k := pair{r.Nodes[nodeOf[b.Emitter]].Surface, b.Surface}
+		if _, seen := groups[k]; !seen {
+			order = append(order, k)
+		}
+		groups[k] = append(groups[k], b)
+	}
+	const fixes = "its normals may be flipped (flip it), it may need a second side (declare it two-sided), or rays leak through a gap into the inside of a part"
+	var w []string
+	for _, k := range order {
+		g := groups[k]
+		if len(g) == 1 {
+			w = append(w, fmt.Sprintf("%.3g%% of the rays from %s hit the back of one-sided surface %s: %s", 100*g[0].Fraction, g[0].Emitter, g[0].Surface, fixes))
 			continue
 		}
-		w = append(w, fmt.Sprintf("%.3g%% of the rays from %s hit the back of one-sided surface %s: its normals may be flipped (flip it), it may need a second side (declare it two-sided), or rays leak through a gap into the inside of a part",
-			100*b.Fraction, b.Emitter, b.Surface))
+		var worst []string
+		for _, b := range g[:min(3, len(g))] {
+			worst = append(worst, fmt.Sprintf("%s %.3g%%", b.Emitter, 100*b.Fraction))
+		}
+		w = append(w, fmt.Sprintf("%d nodes of %s send more than %.3g%% of their rays to the back of one-sided surface %s (worst: %s; summary.json lists all): %s",
+			len(g), surfaces[k.from], 100*BackFaceThreshold, k.to, strings.Join(worst, ", "), fixes))
 	}
 	return w
 }
