@@ -70,10 +70,7 @@ func (b *builder) finish() *Mesh {
 	}
 	for i := range m.Surfaces {
 		s := &m.Surfaces[i]
-		s.Area = 0
-		for _, f := range s.Facets {
-			s.Area += m.FacetArea(int(f))
-		}
+		s.Area = m.AreaOf(s.Facets)
 	}
 	if len(m.Sources) > 0 {
 		m.Sources[0].Facets = len(m.Facets)

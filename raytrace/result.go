@@ -224,10 +224,7 @@ func nodeMapFor(m *mesh.Mesh, opts Options, area []float64) (*nodeMap, error) {
 		return nil, err
 	}
 	for i := range nm.nodes {
-		nm.nodes[i].Area = 0
-		for _, f := range nm.nodes[i].Facets {
-			nm.nodes[i].Area += m.FacetArea(int(f))
-		}
+		nm.nodes[i].Area = m.AreaOf(nm.nodes[i].Facets)
 	}
 	return nm, nil
 }

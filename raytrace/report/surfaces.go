@@ -1,6 +1,7 @@
 package report
 
 import (
+	"math"
 	"path/filepath"
 	"strings"
 
@@ -8,26 +9,43 @@ import (
 	"github.com/hemiray/hemiray/raytrace/exchange"
 )
 
+// SurfaceColumns is the header of surfaces.csv: one quantity and one unit
+// per column. A node's given condition is in the column of its kind
+// (T_set_K, q_set_W_per_m2 or Q_set_W), the others empty.
+var SurfaceColumns = []string{"node", "area_m2", "emissivity", "condition", "T_set_K", "q_set_W_per_m2", "Q_set_W",
+	"T_K", "T_C", "T_halfwidth_K", "J_W_per_m2", "q_W_per_m2", "Q_W", "Q_halfwidth_W"}
+
 // writeSurfaces writes surfaces.csv: per node its inputs and results.
 func writeSurfaces(dir string, a *analysis.Result) error {
 	return writeCSV(filepath.Join(dir, "surfaces.csv"), func(emit func(...string)) error {
-		emit("node", "area_m2", "emissivity", "condition", "condition_value", "T_K", "T_halfwidth_K", "J_W_per_m2", "q_W_per_m2", "Q_W", "Q_halfwidth_W")
+		emit(SurfaceColumns...)
 		for i, n := range a.Nodes {
 			th, qh := "", ""
 			if a.THalf != nil {
 				th, qh = num(a.THalf[i]), num(a.QHalf[i])
 			}
 			in := a.Info[i]
-			val := ""
-			if in.Condition != "adiabatic" && !strings.HasPrefix(in.Condition, "shared") {
-				val = num(in.Value)
+			set := make([]string, 3) // T, q, Q given
+			switch {
+			case strings.HasPrefix(in.Condition, "temperature"):
+				set[0] = num(in.Value)
+			case strings.HasPrefix(in.Condition, "heat_flux"):
+				set[1] = num(in.Value)
+			case strings.HasPrefix(in.Condition, "heat_flow"):
+				set[2] = num(in.Value)
 			}
-			emit(n.Name, num(n.Area), num(in.Emissivity), in.Condition, val, num(a.Solution.T[i]), th,
+			T := a.Solution.T[i]
+			emit(n.Name, num(n.Area), num(in.Emissivity), in.Condition, set[0], set[1], set[2], num(T), num(celsius(T)), th,
 				num(a.Solution.J[i]), num(a.Solution.Flux(i)), num(a.Solution.Q[i]), qh)
 		}
 		return nil
 	})
 }
+
+// celsius converts kelvin to degrees Celsius (T − 273.15 K, SI brochure,
+// 9th ed., 2019), rounded to 1e-9 K so that 308 K reads 34.85, not
+// 34.850000000000023.
+func celsius(T float64) float64 { return math.Round((T-273.15)*1e9) / 1e9 }
 
 // writeConductances writes conductances.csv: one symmetric conductor per
 // pair with a non-zero total exchange factor, and each node's to the

@@ -3,8 +3,10 @@ package report
 import (
 	"encoding/csv"
 	"encoding/json"
+	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -64,10 +66,14 @@ func TestWriteReadsBack(t *testing.T) {
 		t.Errorf("written: %v", written)
 	}
 	s := readCSV(t, filepath.Join(dir, "surfaces.csv"))
+	col := func(name string) int { return slices.Index(s[0], name) }
 	for i, n := range a.Nodes {
 		row := s[i+1]
-		T, _ := strconv.ParseFloat(row[5], 64)
-		Q, _ := strconv.ParseFloat(row[9], 64)
+		T, _ := strconv.ParseFloat(row[col("T_K")], 64)
+		Q, _ := strconv.ParseFloat(row[col("Q_W")], 64)
+		if c, _ := strconv.ParseFloat(row[col("T_C")], 64); math.Abs(c-(T-273.15)) > 1e-9 || row[col("T_set_K")] != "350" {
+			t.Errorf("T_C %v for T_K %v, T_set_K %q", c, T, row[col("T_set_K")])
+		}
 		if row[0] != n.Name || T != a.Solution.T[i] || Q != a.Solution.Q[i] {
 			t.Errorf("surfaces.csv row %v; solution T %v Q %v", row, a.Solution.T[i], a.Solution.Q[i])
 		}
