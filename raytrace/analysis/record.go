@@ -83,8 +83,16 @@ func (r *Record) Differences(old *Record) []string {
 }
 
 // WriteTallies writes ck with its record into dir/tallies.bin atomically.
+// Paths are stored relative to dir, so a project folder can be moved (or
+// mounted elsewhere on a cluster) and still resumed and merged.
 func WriteTallies(dir string, ck *raytrace.Checkpoint, r *Record) error {
-	mb, err := json.Marshal(r)
+	rel := *r
+	rel.Case = relativeTo(dir, r.Case)
+	rel.Inputs = make([]raytrace.FileDigest, len(r.Inputs))
+	for k, f := range r.Inputs {
+		rel.Inputs[k] = raytrace.FileDigest{Path: relativeTo(dir, f.Path), SHA256: f.SHA256}
+	}
+	mb, err := json.Marshal(&rel)
 	if err != nil {
 		return err
 	}
@@ -119,6 +127,15 @@ func ReadTallies(path string) (*raytrace.Checkpoint, *Record, error) {
 	if err := dec.Decode(&r); err != nil || r.Format != recordFormat {
 		return nil, nil, fmt.Errorf("%s: %w: unreadable metadata", path, raytrace.ErrTallyFile)
 	}
+	base := filepath.Dir(path)
+	if r.Case != "" && !filepath.IsAbs(r.Case) {
+		r.Case = filepath.Join(base, r.Case)
+	}
+	for k, f := range r.Inputs {
+		if !filepath.IsAbs(f.Path) {
+			r.Inputs[k].Path = filepath.Join(base, f.Path)
+		}
+	}
 	if r.Nodes != len(ck.Targets) || r.Shards < 1 || r.Shard < 0 || r.Shard >= r.Shards {
 		return nil, nil, fmt.Errorf("%s: %w: the metadata (%d nodes, shard %d/%d) does not match the tallies (%d nodes)",
 			path, raytrace.ErrTallyFile, r.Nodes, r.Shard, r.Shards, len(ck.Targets))
@@ -131,3 +148,19 @@ func ReadTallies(path string) (*raytrace.Checkpoint, *Record, error) {
 // at once naming the first, and an unwritable folder fails before any
 // work. Call unlock when the results are written.
 func LockDir(dir string) (unlock func(), err error) { return atomicfile.Lock(dir) }
+
+// relativeTo returns path relative to dir when both resolve, else path.
+func relativeTo(dir, path string) string {
+	if path == "" {
+		return ""
+	}
+	absDir, err1 := filepath.Abs(dir)
+	abs, err2 := filepath.Abs(path)
+	if err1 != nil || err2 != nil {
+		return path
+	}
+	if rel, err := filepath.Rel(absDir, abs); err == nil {
+		return filepath.ToSlash(rel)
+	}
+	return path
+}
