@@ -182,3 +182,51 @@ func (m *Mesh) AreaOf(facets []int32) float64 {
 	}
 	return sum + c
 }
+
+// RenameSurfaces renames surfaces: names maps an old name to a new one.
+// Old names that map to one new name become one surface (their facets in
+// surface order), so several mesh groups can make one radiation node. A
+// name not in the model, or a new name that is already another surface's,
+// is an error.
+func (m *Mesh) RenameSurfaces(names map[string]string) error {
+	for old, nw := range names {
+		if m.SurfaceIndex(old) < 0 {
+			return fmt.Errorf("no surface %q to rename", old)
+		}
+		if i := m.SurfaceIndex(nw); i >= 0 {
+			if _, renamed := names[nw]; !renamed && nw != old {
+				return fmt.Errorf("cannot rename %q to %q: a surface of that name exists (rename it too, or rename %q to it as well to combine them)", old, nw, nw)
+			}
+		}
+		if nw == "" {
+			return fmt.Errorf("cannot rename %q to an empty name", old)
+		}
+	}
+	var out []Surface
+	index := map[string]int{}
+	remap := make([]int32, len(m.Surfaces))
+	for i, s := range m.Surfaces {
+		name := s.Name
+		if nw, ok := names[name]; ok {
+			name = nw
+		}
+		k, seen := index[name]
+		if !seen {
+			k = len(out)
+			index[name] = k
+			out = append(out, Surface{Name: name, Source: s.Source})
+		} else if out[k].Source != s.Source {
+			out[k].Source = -1 // combined from several files
+		}
+		out[k].Facets = append(out[k].Facets, s.Facets...)
+		remap[i] = int32(k)
+	}
+	for f, s := range m.SurfaceOf {
+		m.SurfaceOf[f] = remap[s]
+	}
+	for k := range out {
+		out[k].Area = m.AreaOf(out[k].Facets)
+	}
+	m.Surfaces = out
+	return nil
+}

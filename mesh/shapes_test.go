@@ -87,3 +87,28 @@ func TestBoxNormalsPointAsAsked(t *testing.T) {
 		}
 	}
 }
+
+// Renaming keeps every facet and area; two groups renamed alike become one
+// surface; a clash with a surface not renamed is refused.
+func TestRenameSurfaces(t *testing.T) {
+	m := Box("", geometry.Box{Max: geometry.Vec3{X: 1, Y: 2, Z: 3}}, 1, true)
+	area := m.TotalArea()
+	if err := m.RenameSurfaces(map[string]string{"xmin": "walls", "xmax": "walls", "zmin": "floor"}); err != nil {
+		t.Fatal(err)
+	}
+	w := m.SurfaceIndex("walls")
+	if len(m.Surfaces) != 5 || w < 0 || m.Surfaces[w].Area != 12 || m.SurfaceIndex("floor") < 0 || m.TotalArea() != area {
+		t.Errorf("surfaces %+v", m.Surfaces)
+	}
+	for _, f := range m.Surfaces[w].Facets {
+		if m.SurfaceOf[f] != int32(w) {
+			t.Fatalf("facet %d still in surface %d", f, m.SurfaceOf[f])
+		}
+	}
+	if err := m.RenameSurfaces(map[string]string{"ymin": "floor"}); err == nil {
+		t.Error("renaming onto an existing surface was accepted")
+	}
+	if err := m.RenameSurfaces(map[string]string{"roof": "top"}); err == nil {
+		t.Error("renaming a missing surface was accepted")
+	}
+}

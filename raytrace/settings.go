@@ -29,6 +29,11 @@ type Settings struct {
 	Units string `json:"units"`
 	// GroupByMaterial reads OBJ surfaces by usemtl material.
 	GroupByMaterial bool `json:"by_material"`
+	// Names and Rename name the surfaces of single-surface files and
+	// rename (or combine) surfaces after reading (a case's [model.names]
+	// and [model.rename]).
+	Names  map[string]string `json:"names,omitempty"`
+	Rename map[string]string `json:"rename,omitempty"`
 	// Flipped names the surfaces whose facets were flipped after reading.
 	Flipped []string `json:"flipped"`
 	// TwoSided names the surfaces whose back is a node of its own.

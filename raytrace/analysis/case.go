@@ -33,6 +33,13 @@ type ModelSpec struct {
 	Files   []string `toml:"files"`
 	Units   string   `toml:"units"`    // m (default), cm, mm, in, ft
 	GroupBy string   `toml:"group_by"` // "group" (default) or "material"
+	// Names gives the surface of a single-surface file (a binary STL, say)
+	// a name, keyed by the file as listed in Files: two exports whose
+	// headers say the same then load together.
+	Names map[string]string `toml:"names"`
+	// Rename renames surfaces after loading; old names renamed alike
+	// become one surface (one radiation node).
+	Rename map[string]string `toml:"rename"`
 }
 
 // RaySpec is the case's [rays] table; zero values take the defaults of
@@ -204,7 +211,7 @@ func (c *Case) Spec(name string) SurfaceSpec {
 func (c *Case) Settings(surfaces []string) raytrace.Settings {
 	r := c.Rays
 	s := raytrace.Settings{
-		Units: c.Model.Units, GroupByMaterial: c.Model.GroupBy == "material",
+		Units: c.Model.Units, GroupByMaterial: c.Model.GroupBy == "material", Names: c.Model.Names, Rename: c.Model.Rename,
 		FacetNodes: r.Facets, Rays: r.PerNode, HalfWidth: r.HalfWidth, MaxRays: r.MaxPerNode,
 		Seed: r.Seed, Confidence: r.Confidence, Replicates: r.Replicates,
 	}

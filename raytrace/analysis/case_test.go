@@ -3,8 +3,13 @@ package analysis
 import (
 	"errors"
 	"math"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/hemiray/hemiray/geometry"
+	"github.com/hemiray/hemiray/mesh"
 )
 
 // Values that would overflow or make no physical sense are refused at
@@ -59,5 +64,36 @@ func TestDescribeAndNotes(t *testing.T) {
 	}
 	if n := in.Notes(); len(n) != 1 || !strings.Contains(n[0], `"floor.back"`) {
 		t.Errorf("Notes: %v", n)
+	}
+}
+
+// Two binary STL files whose headers name the same solid load together
+// when the case names their surfaces; groups renamed alike become one
+// surface.
+func TestNamesAndRename(t *testing.T) {
+	dir := t.TempDir()
+	v := func(x, y, z float64) geometry.Vec3 { return geometry.Vec3{X: x, Y: y, Z: z} }
+	for i, name := range []string{"a.stl", "b.stl"} {
+		f, _ := os.Create(filepath.Join(dir, name))
+		mesh.WriteSTL(f, mesh.Rectangle("x", v(0, 0, float64(i)), v(1, 0, 0), v(0, 1, 0), 1, 1), "Exported solid")
+		f.Close()
+	}
+	c := &Case{Dir: dir, Model: ModelSpec{Files: []string{"a.stl", "b.stl"}}}
+	if _, err := Open(c); err == nil || !strings.Contains(err.Error(), "[model.names]") {
+		t.Errorf("same header names: %v", err)
+	}
+	c.Model.Names = map[string]string{"a.stl": "low", "b.stl": "high"}
+	in, err := Open(c)
+	if err != nil || in.Mesh.SurfaceIndex("low") < 0 || in.Mesh.SurfaceIndex("high") < 0 {
+		t.Fatalf("named: %v", err)
+	}
+	c.Model.Rename = map[string]string{"low": "plates", "high": "plates"}
+	if in, err = Open(c); err != nil || len(in.Mesh.Surfaces) != 1 || in.Mesh.Surfaces[0].Area != 2 {
+		t.Errorf("renamed alike: %v, %+v", err, in.Mesh.Surfaces)
+	}
+	c.Model.Rename = map[string]string{"roof": "top"}
+	var ke *KeyError
+	if _, err := Open(c); !errors.As(err, &ke) || strings.Join(ke.Key, ".") != "model.rename" {
+		t.Errorf("unknown rename: %v", err)
 	}
 }

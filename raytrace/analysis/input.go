@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 
 	"github.com/hemiray/hemiray/mesh"
@@ -34,16 +35,37 @@ func Open(c *Case) (*Input, error) {
 			return nil, keyErr([]string{"model", "units"}, "%v", err)
 		}
 	}
+	for name := range c.Model.Names {
+		if !slices.Contains(c.Model.Files, name) {
+			return nil, keyErr([]string{"model", "names"}, "%q is not one of model.files", name)
+		}
+	}
 	var files []string
-	for _, f := range c.Model.Files {
+	m := &mesh.Mesh{}
+	for _, listed := range c.Model.Files {
+		f := listed
 		if !filepath.IsAbs(f) {
 			f = filepath.Join(c.Dir, f)
 		}
 		files = append(files, f)
+		part, err := mesh.LoadFile(f, mesh.LoadOptions{Unit: unit, GroupByMaterial: c.Model.GroupBy == "material"})
+		if err != nil {
+			return nil, err
+		}
+		if name, ok := c.Model.Names[listed]; ok {
+			if len(part.Surfaces) != 1 {
+				return nil, keyErr([]string{"model", "names"}, "%s has %d surfaces; [model.names] names the surface of a single-surface file (use [model.rename] for the others)", listed, len(part.Surfaces))
+			}
+			part.Surfaces[0].Name = name
+		}
+		if err := m.Append(part); err != nil {
+			return nil, fmt.Errorf("%w (or name them in [model.names])", err)
+		}
 	}
-	m, err := mesh.Load(files, mesh.LoadOptions{Unit: unit, GroupByMaterial: c.Model.GroupBy == "material"})
-	if err != nil {
-		return nil, err
+	if len(c.Model.Rename) > 0 {
+		if err := m.RenameSurfaces(c.Model.Rename); err != nil {
+			return nil, keyErr([]string{"model", "rename"}, "%v", err)
+		}
 	}
 	if err := c.checkSurfaces(m); err != nil {
 		return nil, err
