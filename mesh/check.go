@@ -26,7 +26,7 @@ type SurfaceReport struct {
 	Source  string  `json:"source,omitempty"`
 	Facets  int     `json:"facets"`
 	AreaM2  float64 `json:"area_m2"`
-	Open    int     `json:"boundary_edges"`     // edges used by one facet of this surface
+	Open    int     `json:"boundary_edges"`     // edges of this surface used by no other facet of the model (holes, rims)
 	Winding bool    `json:"winding_consistent"` // no shared edge used twice in one direction
 }
 
@@ -40,7 +40,11 @@ type Report struct {
 	AreaM2    float64         `json:"total_area_m2"`
 	// Closed is true when every edge of the model is shared by exactly two
 	// facets with opposite directions: a watertight, consistently wound model.
-	Closed   bool      `json:"closed"`
+	Closed bool `json:"closed"`
+	// Normals says where a closed model's normals point: "inward" (an
+	// enclosure seen from inside, as a radiation model of a cavity wants)
+	// or "outward" (a solid body); empty for an open model.
+	Normals  string    `json:"normals,omitempty"`
 	Findings []Finding `json:"findings"`
 }
 
@@ -137,6 +141,20 @@ func Check(m *Mesh) Report {
 		}
 	}
 	r.Closed = len(open) == 0 && len(nonManifold) == 0 && len(flipped) == 0 && len(m.Facets) > 0
+	if r.Closed {
+		// The signed volume Σ v0·(v1×v2)/6 of a closed, consistently wound
+		// shell is positive when its normals point out (divergence theorem;
+		// common practice in mesh processing).
+		vol := 0.0
+		for f := range m.Facets {
+			t := m.Triangle(f)
+			vol += t.V0.Dot(t.V1.Cross(t.V2)) / 6
+		}
+		r.Normals = "outward"
+		if vol < 0 {
+			r.Normals = "inward"
+		}
+	}
 	sort.Ints(open)
 	sort.Ints(nonManifold)
 	sort.Ints(flipped)
@@ -150,8 +168,8 @@ func Check(m *Mesh) Report {
 		if src := m.Surfaces[s].Source; src >= 0 && src < len(m.Sources) {
 			sr.Source = m.Sources[src].Path
 		}
-		for _, e := range edgeUse(m, pos, m.Surfaces[s].Facets) {
-			if e.n == 1 {
+		for key, e := range edgeUse(m, pos, m.Surfaces[s].Facets) {
+			if model[key].n == 1 { // an edge a neighbouring surface shares is no hole
 				sr.Open++
 			}
 			if e.n == 2 && e.fwd != 1 {

@@ -126,3 +126,20 @@ func TestCheckExamplesNameFileAndLine(t *testing.T) {
 	}
 	t.Errorf("no winding finding in %+v", r.Findings)
 }
+
+// A closed box's normals are reported inward or outward (its signed
+// volume); edges shared by two surfaces of the box are no holes in either.
+func TestCheckOrientationAndSharedEdges(t *testing.T) {
+	for _, inward := range []bool{true, false} {
+		r := Check(Box("", geometry.Box{Max: geometry.Vec3{X: 1, Y: 2, Z: 3}}, 2, inward))
+		want := map[bool]string{true: "inward", false: "outward"}[inward]
+		if !r.Closed || r.Normals != want {
+			t.Errorf("inward=%v: closed %v, normals %q", inward, r.Closed, r.Normals)
+		}
+		for _, s := range r.Surfaces {
+			if s.Open != 0 {
+				t.Errorf("surface %s of a closed box has %d boundary edges", s.Name, s.Open)
+			}
+		}
+	}
+}

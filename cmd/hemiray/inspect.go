@@ -5,15 +5,18 @@ import (
 	"encoding/json"
 	"flag"
 	"io"
+	"path/filepath"
+	"strings"
 
 	"github.com/hemiray/hemiray/mesh"
+	"github.com/hemiray/hemiray/raytrace/analysis"
 	"github.com/hemiray/hemiray/raytrace/report"
 )
 
 func inspectCommand() *command {
 	c := &command{
 		Name:      "inspect",
-		UsageLine: "inspect [--units U] [--by-material] [--json] FILE...",
+		UsageLine: "inspect [--units U] [--by-material] [--json] (FILE... | CASE.toml)",
 		Short:     "report the surfaces of mesh files and check them for defects",
 		Long: `Inspect reads STL (binary or ASCII) and OBJ files into one model and
 prints a table of its surfaces (facets, area in m², open edges, whether the
@@ -42,7 +45,19 @@ exits 1.`,
 		if err != nil {
 			return usageError{err.Error()}
 		}
-		m, err := mesh.Load(files, mesh.LoadOptions{Unit: unit, GroupByMaterial: *byMaterial})
+		var m *mesh.Mesh
+		if len(files) == 1 && strings.EqualFold(filepath.Ext(files[0]), ".toml") {
+			var in *analysis.Input // a case: its meshes with its units, names and flips
+			if in, err = openCase(files[0]); err == nil {
+				m = in.Mesh
+			}
+		} else {
+			m, err = mesh.Load(files, mesh.LoadOptions{Unit: unit, GroupByMaterial: *byMaterial})
+		}
+		if err != nil && *asJSON {
+			json.NewEncoder(stdout).Encode(map[string]string{"error": err.Error()})
+			return exitError{err}
+		}
 		if err != nil {
 			return err
 		}

@@ -33,6 +33,11 @@ func (e usageError) Error() string { return e.msg }
 
 func usagef(format string, args ...any) error { return usageError{fmt.Sprintf(format, args...)} }
 
+// exitError is a failure already reported (as JSON): exit 1, print nothing.
+type exitError struct{ err error }
+
+func (e exitError) Error() string { return e.err.Error() }
+
 func commands() []*command {
 	return []*command{inspectCommand(), traceCommand(), runCommand(), mergeCommand(), solveCommand(), renderCommand(), demoCommand(), verifyCommand(), versionCommand()}
 }
@@ -71,9 +76,12 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		c.Flags.SetOutput(io.Discard)
 		err := c.Run(ctx, args[1:], stdout, stderr)
 		var ue usageError
+		var ee exitError
 		switch {
 		case err == nil:
 			return 0
+		case errors.As(err, &ee):
+			return 1
 		case errors.Is(err, flag.ErrHelp):
 			printHelp(stdout, c)
 			return 0

@@ -93,3 +93,20 @@ func TestHelpPerCommand(t *testing.T) {
 		t.Errorf("version: exit %d, %q", code, out)
 	}
 }
+
+// inspect reads a case file (its meshes as the case reads them) and, with
+// --json, reports an error as JSON on stdout with exit status 1.
+func TestInspectCaseAndJSONErrors(t *testing.T) {
+	dir := t.TempDir()
+	mesh, _ := filepath.Abs("../../testdata/cabinet_multi.stl")
+	cs := filepath.Join(dir, "c.toml")
+	os.WriteFile(cs, []byte("[model]\nfiles = [\""+mesh+"\"]\n[model.rename]\nfloor = \"base\"\n"), 0o644)
+	if code, out, e := runCLI("inspect", cs); code != 0 || !strings.Contains(out, "base") {
+		t.Errorf("inspect CASE: exit %d, %q, %q", code, out, e)
+	}
+	code, out, _ := runCLI("inspect", "--json", filepath.Join(dir, "missing.obj"))
+	var v struct{ Error string }
+	if err := json.Unmarshal([]byte(out), &v); code != 1 || err != nil || v.Error == "" {
+		t.Errorf("inspect --json of a missing file: exit %d, %q (%v)", code, out, err)
+	}
+}

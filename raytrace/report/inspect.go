@@ -59,7 +59,12 @@ func InspectTable(w io.Writer, m *mesh.Mesh, r mesh.Report) {
 	fmt.Fprintf(w, "bounds: [%.6g, %.6g, %.6g] to [%.6g, %.6g, %.6g] m (size %.6g × %.6g × %.6g m)\n",
 		r.BoundsMin[0], r.BoundsMin[1], r.BoundsMin[2], r.BoundsMax[0], r.BoundsMax[1], r.BoundsMax[2], d[0], d[1], d[2])
 	if r.Closed {
-		fmt.Fprintln(w, "closed: yes (every edge joins exactly two consistently wound facets)")
+		fmt.Fprintf(w, "closed: yes (every edge joins exactly two consistently wound facets); normals point %s", r.Normals)
+		if r.Normals == "inward" {
+			fmt.Fprintln(w, " (an enclosure radiating into its inside)")
+		} else {
+			fmt.Fprintln(w, " (a solid body radiating outwards; flip it if it is an enclosure)")
+		}
 	} else {
 		fmt.Fprintln(w, "closed: no (rays can leave through open edges; they will count toward ambient)")
 	}
