@@ -114,11 +114,6 @@ func gamma(n float64) float64 {
 	return n * u / (1 - n*u)
 }
 
-// SlabScale widens the far distance of a ray–box slab test so that rounding
-// cannot make it miss a box the ray touches: tFar·(1 + 2γ(3)) (Pharr et al.,
-// sec. 3.9.2; Ize, "Robust BVH ray traversal", JCGT 2(2), 2013).
-var SlabScale = 1 + 2*gamma(3)
-
 // OffsetOrigin moves point p, computed as b0·a + b1·b + b2·c on triangle
 // (a, b, c), off the triangle's plane to the side of unit normal n, by more
 // than the rounding error of that computation, so that a ray leaving p

@@ -287,11 +287,14 @@ func TestBatchMatchesSingle(t *testing.T) {
 // 2(2), 2013).
 func TestSlabFlatBox(t *testing.T) {
 	n := treeNode{Bounds: [6]float32{0, 0, 1, 1, 1, 1}}
-	r := newRayBox(geometry.Vec3{X: 0.5, Y: 0.5}, geometry.Vec3{Z: 1})
-	if _, ok := r.slab(&n, orderKey(10)); !ok {
-		t.Error("an axis-parallel ray misses a flat box it crosses")
-	}
-	if _, ok := r.slab(&n, orderKey(0.5)); ok {
-		t.Error("a ray ending before the box hits it")
+	var l lane
+	for _, tc := range []struct {
+		tMax float64
+		hit  bool
+	}{{10, true}, {0.5, false}} {
+		l.aim(geometry.Vec3{X: 0.5, Y: 0.5}, geometry.Vec3{Z: 1}, tc.tMax)
+		if enter, leave := l.span(unsafe.Pointer(&n)); (enter <= leave) != tc.hit {
+			t.Errorf("tMax %v: an axis-parallel ray crossing a flat box at 1: hit %v, want %v", tc.tMax, enter <= leave, tc.hit)
+		}
 	}
 }

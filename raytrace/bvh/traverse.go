@@ -45,10 +45,6 @@ func (t *Tree) Occluded(o, d geometry.Vec3, tMax float64, skip int32) bool {
 	return l.hit.Facet >= 0
 }
 
-// farScale widens exit distances; it carries one rounding more than
-// geometry.SlabScale because it is folded into the reciprocal direction.
-var farScale = 1 + 2*4*0x1p-53/(1-4*0x1p-53)
-
 // Query is one ray of a batch for IntersectBatch: from O along D, for hits
 // with 0 < t < TMax, skipping facet Skip (−1 skips nothing).
 type Query struct {
@@ -137,14 +133,10 @@ func (t *Tree) startLane(l *lane, q *Query) bool {
 	if len(t.nodes) == 0 {
 		return false
 	}
-	r := newRayBox(q.O, q.D)
-	l.tMax, l.tMaxKey = q.TMax, orderKey(q.TMax)
-	if _, ok := r.slab(&t.nodes[0], l.tMaxKey); !ok {
+	l.aim(q.O, q.D, q.TMax)
+	if enter, leave := l.span(unsafe.Pointer(&t.nodes[0])); enter > leave {
 		return false
 	}
-	l.ox, l.oy, l.oz, l.ix, l.iy, l.iz = r.ox, r.oy, r.oz, r.ix, r.iy, r.iz
-	l.fx, l.fy, l.fz = r.ix*farScale, r.iy*farScale, r.iz*farScale
-	l.nx, l.ny, l.nz, l.mx, l.my, l.mz = 4*uintptr(r.nx), 4*uintptr(r.ny), 4*uintptr(r.nz), 4*uintptr(r.fx), 4*uintptr(r.fy), 4*uintptr(r.fz)
 	l.sh = geometry.NewShear(q.O, q.D)
 	l.hit, l.skip, l.cur, l.sp, l.anyHit = Miss, q.Skip, 0, 0, false
 	return true
@@ -170,50 +162,8 @@ func (t *Tree) step(l *lane) bool {
 		pair := unsafe.Pointer(unsafe.SliceData(t.nodes))
 		pair = unsafe.Add(pair, uintptr(n.Offset)*unsafe.Sizeof(treeNode{}))
 		lb, rb := pair, unsafe.Add(pair, unsafe.Sizeof(treeNode{}))
-		ox, oy, oz := l.ox, l.oy, l.oz
-		ix, iy, iz, fx, fy, fz := l.ix, l.iy, l.iz, l.fx, l.fy, l.fz
-		nx, ny, nz, mx, my, mz := l.nx, l.ny, l.nz, l.mx, l.my, l.mz
-		l0 := int64(math.Float64bits((bound(lb, nx) - ox) * ix))
-		r0 := int64(math.Float64bits((bound(rb, nx) - ox) * ix))
-		l1 := int64(math.Float64bits((bound(lb, mx)-ox)*fx + 0))
-		r1 := int64(math.Float64bits((bound(rb, mx)-ox)*fx + 0))
-		if v := int64(math.Float64bits((bound(lb, ny) - oy) * iy)); v > l0 {
-			l0 = v
-		}
-		if v := int64(math.Float64bits((bound(rb, ny) - oy) * iy)); v > r0 {
-			r0 = v
-		}
-		if v := int64(math.Float64bits((bound(lb, my)-oy)*fy + 0)); v < l1 {
-			l1 = v
-		}
-		if v := int64(math.Float64bits((bound(rb, my)-oy)*fy + 0)); v < r1 {
-			r1 = v
-		}
-		if v := int64(math.Float64bits((bound(lb, nz) - oz) * iz)); v > l0 {
-			l0 = v
-		}
-		if v := int64(math.Float64bits((bound(rb, nz) - oz) * iz)); v > r0 {
-			r0 = v
-		}
-		if v := int64(math.Float64bits((bound(lb, mz)-oz)*fz + 0)); v < l1 {
-			l1 = v
-		}
-		if v := int64(math.Float64bits((bound(rb, mz)-oz)*fz + 0)); v < r1 {
-			r1 = v
-		}
-		tMaxKey := l.tMaxKey
-		if l0 < 0 {
-			l0 = 0
-		}
-		if r0 < 0 {
-			r0 = 0
-		}
-		if tMaxKey < l1 {
-			l1 = tMaxKey
-		}
-		if tMaxKey < r1 {
-			r1 = tMaxKey
-		}
+		l0, l1 := l.span(lb)
+		r0, r1 := l.span(rb)
 		// A child the ray misses gets entry distance "never", so the
 		// nearer child is the one to visit and the farther is pushed
 		// only if it is met too.
