@@ -88,6 +88,9 @@ type builder struct {
 	sem   chan struct{} // tokens for extra goroutines
 }
 
+// sentinel is the index of the node above the root (see Build).
+const sentinel = 1
+
 // Build constructs the tree over the triangles (v[f[i][0]], v[f[i][1]],
 // v[f[i][2]]); facet i gets id i. Degenerate triangles are kept (they are
 // never hit), and triangles with non-finite coordinates are left out.
@@ -115,9 +118,13 @@ func Build(v []geometry.Vec3, f [][3]int32, opts Options) *Tree {
 	}
 	t := &Tree{}
 	if len(b.prims) > 0 {
-		// The root, then an unused node, so that every child pair starts at
-		// an even index: 64-byte aligned in the page-aligned array.
+		// The root, then the sentinel: an inner node whose children are
+		// the root and itself, with an empty box no ray enters, so that the
+		// traversal tests the root like any child. Every child pair then
+		// starts at an even index: 64-byte aligned in the page-aligned array.
 		t.nodes = make([]treeNode, 2, len(b.prims)+2)
+		inf := float32(math.Inf(1))
+		t.nodes[sentinel] = treeNode{Bounds: [6]float32{inf, inf, inf, -inf, -inf, -inf}, Offset: 0, Count: 0}
 		bounds := emptyBox()
 		for i := range b.prims {
 			bounds.grow(&b.prims[i].b)

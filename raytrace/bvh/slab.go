@@ -2,7 +2,6 @@ package bvh
 
 import (
 	"math"
-	"unsafe"
 
 	"github.com/hemiray/hemiray/geometry"
 )
@@ -45,37 +44,6 @@ func (l *lane) aim(o, d geometry.Vec3, tMax float64) {
 	nz, mz := planes(d.Z, 2)
 	l.nx, l.ny, l.nz, l.mx, l.my, l.mz = 4*uintptr(nx), 4*uintptr(ny), 4*uintptr(nz), 4*uintptr(mx), 4*uintptr(my), 4*uintptr(mz)
 	l.tMax, l.tMaxKey = tMax, orderKey(tMax)
-}
-
-// span is the slab test, the only one: the order keys of the distances at
-// which the lane's ray enters and leaves the box of the node at b, clamped
-// to [0, tMax]; enter > leave is a miss. Bounds are read at the byte
-// offsets fixed per ray (nx…mz), exit distances are widened by farScale
-// (folded into fx…fz), and min and max are integer compares of the keys,
-// which compile to conditional moves (see above). Measured as fast as the
-// two children's tests written out in step.
-func (l *lane) span(b unsafe.Pointer) (enter, leave int64) {
-	enter = int64(math.Float64bits((bound(b, l.nx) - l.ox) * l.ix))
-	leave = int64(math.Float64bits((bound(b, l.mx)-l.ox)*l.fx + 0))
-	if v := int64(math.Float64bits((bound(b, l.ny) - l.oy) * l.iy)); v > enter {
-		enter = v
-	}
-	if v := int64(math.Float64bits((bound(b, l.my)-l.oy)*l.fy + 0)); v < leave {
-		leave = v
-	}
-	if v := int64(math.Float64bits((bound(b, l.nz) - l.oz) * l.iz)); v > enter {
-		enter = v
-	}
-	if v := int64(math.Float64bits((bound(b, l.mz)-l.oz)*l.fz + 0)); v < leave {
-		leave = v
-	}
-	if enter < 0 {
-		enter = 0
-	}
-	if l.tMaxKey < leave {
-		leave = l.tMaxKey
-	}
-	return enter, leave
 }
 
 func inverse(x float64) float64 {

@@ -134,12 +134,12 @@ func (t *Tree) startLane(l *lane, q *Query) bool {
 		return false
 	}
 	l.aim(q.O, q.D, q.TMax)
-	if enter, leave := l.span(unsafe.Pointer(&t.nodes[0])); enter > leave {
-		return false
-	}
 	l.sh = geometry.NewShear(q.O, q.D)
-	l.hit, l.skip, l.cur, l.sp, l.anyHit = Miss, q.Skip, 0, 0, false
-	return true
+	l.hit, l.skip, l.sp, l.anyHit = Miss, q.Skip, 0, false
+	// Start at the sentinel above the root (node 1, see Build): one step
+	// tests the root's box with the same slab test as every other box.
+	l.cur = sentinel
+	return !t.step(l)
 }
 
 // fetchAhead starts loading what visiting node i will read: the pair of
@@ -162,8 +162,52 @@ func (t *Tree) step(l *lane) bool {
 		pair := unsafe.Pointer(unsafe.SliceData(t.nodes))
 		pair = unsafe.Add(pair, uintptr(n.Offset)*unsafe.Sizeof(treeNode{}))
 		lb, rb := pair, unsafe.Add(pair, unsafe.Sizeof(treeNode{}))
-		l0, l1 := l.span(lb)
-		r0, r1 := l.span(rb)
+		// The slab test of both children (Kay & Kajiya 1986; see slab.go),
+		// written out so that the two boxes' loads and compares interleave.
+		ox, oy, oz := l.ox, l.oy, l.oz
+		ix, iy, iz, fx, fy, fz := l.ix, l.iy, l.iz, l.fx, l.fy, l.fz
+		nx, ny, nz, mx, my, mz := l.nx, l.ny, l.nz, l.mx, l.my, l.mz
+		l0 := int64(math.Float64bits((bound(lb, nx) - ox) * ix))
+		r0 := int64(math.Float64bits((bound(rb, nx) - ox) * ix))
+		l1 := int64(math.Float64bits((bound(lb, mx)-ox)*fx + 0))
+		r1 := int64(math.Float64bits((bound(rb, mx)-ox)*fx + 0))
+		if v := int64(math.Float64bits((bound(lb, ny) - oy) * iy)); v > l0 {
+			l0 = v
+		}
+		if v := int64(math.Float64bits((bound(rb, ny) - oy) * iy)); v > r0 {
+			r0 = v
+		}
+		if v := int64(math.Float64bits((bound(lb, my)-oy)*fy + 0)); v < l1 {
+			l1 = v
+		}
+		if v := int64(math.Float64bits((bound(rb, my)-oy)*fy + 0)); v < r1 {
+			r1 = v
+		}
+		if v := int64(math.Float64bits((bound(lb, nz) - oz) * iz)); v > l0 {
+			l0 = v
+		}
+		if v := int64(math.Float64bits((bound(rb, nz) - oz) * iz)); v > r0 {
+			r0 = v
+		}
+		if v := int64(math.Float64bits((bound(lb, mz)-oz)*fz + 0)); v < l1 {
+			l1 = v
+		}
+		if v := int64(math.Float64bits((bound(rb, mz)-oz)*fz + 0)); v < r1 {
+			r1 = v
+		}
+		tMaxKey := l.tMaxKey
+		if l0 < 0 {
+			l0 = 0
+		}
+		if r0 < 0 {
+			r0 = 0
+		}
+		if tMaxKey < l1 {
+			l1 = tMaxKey
+		}
+		if tMaxKey < r1 {
+			r1 = tMaxKey
+		}
 		// A child the ray misses gets entry distance "never", so the
 		// nearer child is the one to visit and the farther is pushed
 		// only if it is met too.
