@@ -4,7 +4,8 @@
 //
 // # Layout
 //
-// The tree is flattened into 32-byte Nodes with float32 bounds. Vertices
+// The tree is flattened into 32-byte nodes with float32 bounds (unexported:
+// the traversal reads them with unchecked pointer arithmetic). Vertices
 // are stored rounded to float32 (RoundVertex), so the bounds of the stored
 // triangles are float32 numbers and are exact, hence conservative. The two children of an inner node sit side by
 // side at Offset and Offset+1, 64-byte aligned, so the traversal's test of
@@ -15,7 +16,7 @@
 // # Robustness
 //
 // Triangles are tested with the watertight test of Woop, Benthin & Wald
-// (geometry.Shear); box tests widen the far distance by 1 + 2γ(3); the
+// (geometry.Shear); box tests widen the far distance by 1 + 2γ(4) (farScale); the
 // caller's emitting facet is skipped by id, and origins leave their facet
 // through geometry.OffsetOrigin. No absolute epsilon appears anywhere, so a
 // model in millimetres and one in kilometres behave the same.
