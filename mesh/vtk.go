@@ -7,11 +7,13 @@ import (
 	"strconv"
 )
 
-// CellArray is per-facet data for WriteVTP: Int or Float, one value per facet.
+// CellArray is per-facet data for WriteVTP: Int, Float or String, one
+// value per facet.
 type CellArray struct {
-	Name  string
-	Int   []int32
-	Float []float64
+	Name   string
+	Int    []int32
+	Float  []float64
+	String []string
 }
 
 // WriteVTP writes m as a VTK XML PolyData file (the .vtp format of the
@@ -21,7 +23,7 @@ type CellArray struct {
 // empty, is written as an XML comment (e.g. the surface names).
 func WriteVTP(w io.Writer, m *Mesh, cells []CellArray, comment string) error {
 	for _, c := range cells {
-		if n := max(len(c.Int), len(c.Float)); n != len(m.Facets) {
+		if n := max(len(c.Int), len(c.Float), len(c.String)); n != len(m.Facets) {
 			return fmt.Errorf("vtp: cell array %s has %d values for %d facets", c.Name, n, len(m.Facets))
 		}
 	}
@@ -55,6 +57,22 @@ func WriteVTP(w io.Writer, m *Mesh, cells []CellArray, comment string) error {
 	fmt.Fprintln(bw, `      </Polys>`)
 	fmt.Fprintln(bw, `      <CellData>`)
 	for _, c := range cells {
+		if c.String != nil {
+			// VTK's ASCII form of a string array: each string as its byte
+			// values, ended by a 0 (what vtkXMLWriter itself writes).
+			fmt.Fprintf(bw, "        <Array type=\"String\" Name=\"%s\" format=\"ascii\">\n", c.Name)
+			for _, x := range c.String {
+				for i := 0; i < len(x); i++ {
+					if x[i] != 0 {
+						bw.Write(strconv.AppendInt(buf[:0], int64(x[i]), 10))
+						bw.WriteByte(' ')
+					}
+				}
+				bw.WriteString("0\n")
+			}
+			fmt.Fprintln(bw, `        </Array>`)
+			continue
+		}
 		if c.Int != nil {
 			fmt.Fprintf(bw, "        <DataArray type=\"Int32\" Name=\"%s\" format=\"ascii\">\n", c.Name)
 			for _, x := range c.Int {

@@ -23,8 +23,13 @@ func TestWriteVTP(t *testing.T) {
 		ids[f] = m.SurfaceOf[f]
 		area[f] = m.FacetArea(f)
 	}
+	names := make([]string, len(m.Facets))
+	for f := range m.Facets {
+		names[f] = m.Surfaces[m.SurfaceOf[f]].Name
+	}
+	names[0] = "wall, \"north\" <1>" // characters XML and CSV treat specially
 	var b bytes.Buffer
-	if err := WriteVTP(&b, m, []CellArray{{Name: "surface", Int: ids}, {Name: "area_m2", Float: area}}, "surfaces: xmin -- xmax"); err != nil {
+	if err := WriteVTP(&b, m, []CellArray{{Name: "surface", Int: ids}, {Name: "area_m2", Float: area}, {Name: "surface_name", String: names}}, "surfaces: xmin -- xmax"); err != nil {
 		t.Fatal(err)
 	}
 	var doc struct {
@@ -81,7 +86,8 @@ func TestWriteVTP(t *testing.T) {
 		os.WriteFile(path, b.Bytes(), 0o644)
 		script := `import sys, vtk
 r = vtk.vtkXMLPolyDataReader(); r.SetFileName(sys.argv[1]); r.Update()
-o = r.GetOutput(); print(o.GetNumberOfPoints(), o.GetNumberOfCells(), o.GetCellData().GetArray("area_m2").GetNumberOfTuples())`
+o = r.GetOutput(); s = o.GetCellData().GetAbstractArray("surface_name")
+print(o.GetNumberOfPoints(), o.GetNumberOfCells(), o.GetCellData().GetArray("area_m2").GetNumberOfTuples(), s.GetNumberOfValues(), repr(s.GetValue(0)), s.GetValue(47))`
 		out, err := exec.Command(py, "-c", script, path).CombinedOutput()
 		if err != nil {
 			if strings.Contains(string(out), "No module named") {
@@ -90,7 +96,7 @@ o = r.GetOutput(); print(o.GetNumberOfPoints(), o.GetNumberOfCells(), o.GetCellD
 			}
 			t.Fatalf("VTK reader: %v\n%s", err, out)
 		}
-		if want := strconv.Itoa(len(m.Vertices)) + " 48 48"; strings.TrimSpace(string(out)) != want {
+		if want := strconv.Itoa(len(m.Vertices)) + ` 48 48 48 'wall, "north" <1>' ` + names[47]; strings.TrimSpace(string(out)) != want {
 			t.Errorf("VTK reader says %q, want %q", out, want)
 		}
 	}

@@ -165,8 +165,14 @@ func TestDemo(t *testing.T) {
 			t.Errorf("%s: %v", f, err)
 		}
 	}
-	if err := xml.Unmarshal(mustRead(t, filepath.Join(dir, "results", "model.vtp")), new(struct{})); err != nil {
+	vtp := mustRead(t, filepath.Join(dir, "results", "model.vtp"))
+	if err := xml.Unmarshal(vtp, new(struct{})); err != nil {
 		t.Errorf("model.vtp: %v", err)
+	}
+	for _, a := range []string{`Name="surface_name"`, `Name="node_name"`, `Name="q_back_W_per_m2"`} {
+		if !bytes.Contains(vtp, []byte(a)) {
+			t.Errorf("model.vtp lacks the cell array %s", a)
+		}
 	}
 }
 

@@ -1,14 +1,12 @@
 package report
 
 import (
-	"fmt"
 	"image"
 	"image/color"
 	"image/png"
 	"io"
 	"math"
 	"path/filepath"
-	"strings"
 
 	"github.com/hemiray/hemiray/geometry"
 	"github.com/hemiray/hemiray/mesh"
@@ -199,21 +197,33 @@ func writePictures(dir string, in *analysis.Input, nodes []raytrace.Node, res *r
 	return append(written, "model.vtp"), nil
 }
 
-// writeVTP writes the facets with their node, surface, area and results.
-// F_to_ambient is the raw escape fraction; back-face hits are NaN when the
-// view factors were given rather than traced (res nil).
+// writeVTP writes the facets with their surface and node (ids and names),
+// area and results; the back side of a two-sided sheet has its own node,
+// flux and flow (NaN where a facet has no back node). F_to_ambient is the
+// raw escape fraction; back-face hits are NaN when the view factors were
+// given rather than traced (res nil).
 func writeVTP(path string, m *mesh.Mesh, nodes []raytrace.Node, res *raytrace.Result, a *analysis.Result) error {
 	front, back := facetNodes(m, nodes)
 	n := len(m.Facets)
 	surf, node, backNode := make([]int32, n), make([]int32, n), make([]int32, n)
+	surfName, nodeName, backName := make([]string, n), make([]string, n), make([]string, n)
 	area, toAmb, backHits := make([]float64, n), make([]float64, n), make([]float64, n)
-	var T, q, Q []float64
+	var T, q, Q, qb, Qb []float64
 	if a != nil {
-		T, q, Q = make([]float64, n), make([]float64, n), make([]float64, n)
+		T, q, Q, qb, Qb = make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
 	}
 	nan := math.NaN()
 	for f := range n {
 		surf[f], node[f], backNode[f], area[f] = m.SurfaceOf[f], front[f], back[f], m.FacetArea(f)
+		surfName[f] = m.Surfaces[m.SurfaceOf[f]].Name
+		if j := back[f]; j >= 0 {
+			backName[f] = nodes[j].Name
+			if a != nil {
+				qb[f], Qb[f] = a.Solution.Flux(int(j)), a.Solution.Q[j]
+			}
+		} else if a != nil {
+			qb[f], Qb[f] = nan, nan
+		}
 		i := front[f]
 		if i < 0 {
 			toAmb[f], backHits[f] = nan, nan
@@ -222,6 +232,7 @@ func writeVTP(path string, m *mesh.Mesh, nodes []raytrace.Node, res *raytrace.Re
 			}
 			continue
 		}
+		nodeName[f] = nodes[i].Name
 		switch {
 		case res != nil:
 			toAmb[f] = float64(res.Escaped[i]) / float64(max(res.Rays[i], 1))
@@ -234,22 +245,16 @@ func writeVTP(path string, m *mesh.Mesh, nodes []raytrace.Node, res *raytrace.Re
 		}
 	}
 	cells := []mesh.CellArray{
-		{Name: "surface", Int: surf}, {Name: "node", Int: node}, {Name: "back_node", Int: backNode},
+		{Name: "surface", Int: surf}, {Name: "surface_name", String: surfName},
+		{Name: "node", Int: node}, {Name: "node_name", String: nodeName},
+		{Name: "back_node", Int: backNode}, {Name: "back_node_name", String: backName},
 		{Name: "area_m2", Float: area}, {Name: "F_to_ambient", Float: toAmb}, {Name: "backface_hits", Float: backHits},
 	}
 	if a != nil {
-		cells = append(cells, mesh.CellArray{Name: "T_K", Float: T}, mesh.CellArray{Name: "q_W_per_m2", Float: q}, mesh.CellArray{Name: "Q_W_of_node", Float: Q})
+		cells = append(cells, mesh.CellArray{Name: "T_K", Float: T}, mesh.CellArray{Name: "q_W_per_m2", Float: q}, mesh.CellArray{Name: "Q_W_of_node", Float: Q},
+			mesh.CellArray{Name: "q_back_W_per_m2", Float: qb}, mesh.CellArray{Name: "Q_back_W_of_node", Float: Qb})
 	}
-	var names []string
-	for i, s := range m.Surfaces {
-		names = append(names, fmt.Sprintf("%d=%s", i, s.Name))
-	}
-	var nodeNames []string
-	for i, nd := range nodes {
-		if i < 200 {
-			nodeNames = append(nodeNames, fmt.Sprintf("%d=%s", i, nd.Name))
-		}
-	}
-	comment := "hemiray: surface " + strings.Join(names, " ") + "; node " + strings.Join(nodeNames, " ")
-	return atomicfile.Write(path, func(w io.Writer) error { return mesh.WriteVTP(w, m, cells, comment) })
+	return atomicfile.Write(path, func(w io.Writer) error {
+		return mesh.WriteVTP(w, m, cells, "hemiray: cell arrays surface_name, node_name and back_node_name name what the ids number")
+	})
 }
