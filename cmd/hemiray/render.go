@@ -42,6 +42,7 @@ AZIMUTH,ELEVATION in degrees (default 35,25).`,
 	results := c.Flags.String("results", "", "results folder for field colourings (default: the case's output.dir, else hemiray-out)")
 	viewFlag := c.Flags.String("view", "35,25", "+x … -z, or AZIMUTH,ELEVATION in degrees")
 	size := c.Flags.String("size", "1024x768", "picture size in pixels, WxH")
+	up := c.Flags.String("up", "", "the model's up axis: z or y (default: the case's output.up, else z)")
 	c.Run = func(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 		pos, err := parseArgs(c.Flags, args)
 		if err != nil {
@@ -60,6 +61,14 @@ AZIMUTH,ELEVATION in degrees (default 35,25).`,
 			return err
 		}
 		in := j.in
+		switch {
+		case *up == "y" || *up == "z":
+			view.Up = *up
+		case *up != "":
+			return usagef("--up %q: give z or y", *up)
+		case in.Case != nil:
+			view.Up = in.Case.Output.Up
+		}
 		file := *out
 		if file == "" {
 			file = "model_" + strings.ReplaceAll(*colorBy, ":", "_") + ".png"
@@ -90,7 +99,7 @@ AZIMUTH,ELEVATION in degrees (default 35,25).`,
 			if err := report.MatchField(values, nodes, dir); err != nil {
 				return err
 			}
-			img = p.ByField(view, w, h, nodes, values, label)
+			img = p.ByField(view, w, h, nodes, values, label, *colorBy == "heat-flux")
 		}
 		if err := report.WritePNG(file, img); err != nil {
 			return err

@@ -62,6 +62,7 @@ type AmbientSpec struct {
 // OutputSpec says where results go.
 type OutputSpec struct {
 	Dir string `toml:"dir"`
+	Up  string `toml:"up"` // the model's up axis for pictures: "z" (default) or "y"
 }
 
 // SurfaceSpec is the settings of one node (or the defaults). Unset values
@@ -124,6 +125,9 @@ func (c *Case) Validate() error {
 	}
 	if t := c.Ambient.Temperature; t != nil && !(*t >= 0 && *t <= maxTemperature) {
 		return keyErr([]string{"ambient", "temperature"}, "ambient temperature %v K is outside [0, %g]", *t, maxTemperature)
+	}
+	if u := c.Output.Up; u != "" && u != "z" && u != "y" {
+		return keyErr([]string{"output", "up"}, "up is %q; use \"z\" or \"y\"", u)
 	}
 	if err := checkSpec([]string{"defaults"}, c.Defaults); err != nil {
 		return err

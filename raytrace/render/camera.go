@@ -16,17 +16,22 @@ type Camera struct {
 	Width, Height      int
 }
 
-// View names a direction to look from: azimuth and elevation in degrees
-// (azimuth from +x toward +y, elevation above the x–y plane), or an axis.
+// View names a direction to look from: azimuth and elevation in degrees,
+// or an axis. With the model's up axis Up = "z" (the default) azimuth runs
+// from +x toward +y and elevation above the x–y plane; with Up = "y" (as
+// many graphics exports have it) azimuth runs from +z toward +x and
+// elevation above the z–x plane, and the picture's up is +y.
 type View struct {
 	Azimuth, Elevation float64
+	Axis               geometry.Vec3 // looking from this axis when not zero
+	Up                 string        // "z" (default) or "y"
 }
 
 // ParseView reads "+x", "-y", "+z", … (looking from that side) or "AZ,EL".
 func ParseView(s string) (View, error) {
-	axes := map[string]View{"+x": {0, 0}, "-x": {180, 0}, "+y": {90, 0}, "-y": {270, 0}, "+z": {0, 90}, "-z": {0, -90}}
-	if v, ok := axes[strings.ToLower(strings.TrimSpace(s))]; ok {
-		return v, nil
+	axes := map[string]geometry.Vec3{"+x": {X: 1}, "-x": {X: -1}, "+y": {Y: 1}, "-y": {Y: -1}, "+z": {Z: 1}, "-z": {Z: -1}}
+	if a, ok := axes[strings.ToLower(strings.TrimSpace(s))]; ok {
+		return View{Axis: a}, nil
 	}
 	var v View
 	if _, err := fmt.Sscanf(s, "%g,%g", &v.Azimuth, &v.Elevation); err != nil || v.Elevation < -90 || v.Elevation > 90 {
@@ -41,17 +46,25 @@ func ParseView(s string) (View, error) {
 func Frame(b geometry.Box, v View, width, height int) Camera {
 	centre := b.Center()
 	radius := math.Max(b.Diagonal().Len()/2, 1e-30)
+	// A right-handed basis (e1, e2, up) for the model's up axis.
+	e1, e2, up := geometry.Vec3{X: 1}, geometry.Vec3{Y: 1}, geometry.Vec3{Z: 1}
+	if v.Up == "y" {
+		e1, e2, up = geometry.Vec3{Z: 1}, geometry.Vec3{X: 1}, geometry.Vec3{Y: 1}
+	}
 	az, el := v.Azimuth*math.Pi/180, v.Elevation*math.Pi/180
-	dir := geometry.Vec3{X: math.Cos(el) * math.Cos(az), Y: math.Cos(el) * math.Sin(az), Z: math.Sin(el)}
+	dir := e1.Scale(math.Cos(el) * math.Cos(az)).Add(e2.Scale(math.Cos(el) * math.Sin(az))).Add(up.Scale(math.Sin(el)))
+	if v.Axis != (geometry.Vec3{}) {
+		dir = v.Axis.Normalize()
+	}
 	c := Camera{Width: width, Height: height, tanHalf: math.Tan(35.0 / 2 * math.Pi / 180)}
 	// The sphere must fit the narrower of the two fields of view.
 	tanFit := c.tanHalf * math.Min(1, float64(width)/float64(height))
 	dist := radius / math.Sin(math.Atan(tanFit)) * 1.05
 	c.Eye = centre.Add(dir.Scale(dist))
 	c.forward = dir.Scale(-1)
-	worldUp := geometry.Vec3{Z: 1}
-	if math.Abs(dir.Z) > 0.999 {
-		worldUp = geometry.Vec3{Y: 1}
+	worldUp := up
+	if math.Abs(dir.Dot(up)) > 0.999 { // looking along the up axis: e2 is up in the picture
+		worldUp = e2
 	}
 	c.right = c.forward.Cross(worldUp).Normalize()
 	c.up = c.right.Cross(c.forward)

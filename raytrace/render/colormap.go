@@ -81,3 +81,39 @@ func luminance(c color.RGBA) float64 {
 	}
 	return 0.2126*lin(c.R) + 0.7152*lin(c.G) + 0.0722*lin(c.B)
 }
+
+// Diverging maps t in [0, 1] to a blue–grey–red map for signed values,
+// t = 0.5 (zero) grey: the end and middle colours of Moreland's cool-warm
+// map ("Diverging color maps for scientific visualization", ISVC 2009;
+// values from memory), interpolated linearly in linear-light RGB, so that
+// lightness falls symmetrically from the middle to either end.
+func Diverging(t float64) color.RGBA {
+	t = math.Max(0, math.Min(1, t))
+	cool, mid, warm := [3]float64{59, 76, 192}, [3]float64{221, 221, 221}, [3]float64{180, 4, 38}
+	a, b, u := cool, mid, 2*t
+	if t > 0.5 {
+		a, b, u = mid, warm, 2*t-1
+	}
+	var c [3]uint8
+	for k := range 3 {
+		la, lb := linear(a[k]/255), linear(b[k]/255)
+		c[k] = uint8(255*encode(la+u*(lb-la)) + 0.5)
+	}
+	return color.RGBA{c[0], c[1], c[2], 255}
+}
+
+// linear and encode convert between sRGB values and linear light (IEC
+// 61966-2-1).
+func linear(x float64) float64 {
+	if x <= 0.04045 {
+		return x / 12.92
+	}
+	return math.Pow((x+0.055)/1.055, 2.4)
+}
+
+func encode(x float64) float64 {
+	if x <= 0.0031308 {
+		return 12.92 * x
+	}
+	return 1.055*math.Pow(x, 1/2.4) - 0.055
+}

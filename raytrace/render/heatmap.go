@@ -1,6 +1,7 @@
 package render
 
 import (
+	"golang.org/x/image/font"
 	"image"
 	"image/color"
 	"math"
@@ -11,15 +12,24 @@ import (
 const LogFloor = 1e-4
 
 // HeatMap draws matrix F (rows, cols names) as coloured cells with a colour
-// bar, linear or base-10 logarithmic. Rows and columns are labelled when
-// there are at most 40 of them.
-func HeatMap(rows, cols []string, F [][]float64, log bool) *image.RGBA {
+// bar, linear or base-10 logarithmic, under title. Rows and columns are
+// labelled when there are at most 40 of them; long names are shortened
+// with "…" so that labels never print over each other.
+func HeatMap(title string, rows, cols []string, F [][]float64, log bool) *image.RGBA {
 	n, m := len(rows), len(cols)
 	cell := max(1, min(600/max(n, m), 40))
 	labels := n <= 40 && m <= 40
 	left, top := 10, 40
 	fc := face(12)
 	if labels {
+		short := func(names []string, width int) []string {
+			out := make([]string, len(names))
+			for k, n := range names {
+				out[k] = shorten(fc, n, width)
+			}
+			return out
+		}
+		rows, cols = short(rows, 160), short(cols, 2*cell-6) // columns alternate between two lines
 		for _, r := range rows {
 			left = max(left, textWidth(fc, r)+16)
 		}
@@ -48,11 +58,10 @@ func HeatMap(rows, cols []string, F [][]float64, log bool) *image.RGBA {
 			fill(img, image.Rect(left+j*cell, top+i*cell, left+(j+1)*cell, top+(i+1)*cell), c)
 		}
 	}
-	title := "view factor F(row → column)"
 	if log {
 		title += ", log scale"
 	}
-	text(img, face(14), 10, 22, title, ink)
+	text(img, face(14), 10, 22, shorten(face(14), title, w-120), ink)
 	if labels {
 		for i, r := range rows {
 			text(img, fc, 8, top+i*cell+cell/2+4, r, ink)
@@ -62,10 +71,22 @@ func HeatMap(rows, cols []string, F [][]float64, log bool) *image.RGBA {
 			text(img, fc, left+j*cell+2, top-8-14*(j%2), c, ink)
 		}
 	}
-	label := "F"
+	label, scale := "F", Linear
 	if log {
-		label = "F (log)"
+		label, scale = "F (log)", Log
 	}
-	ColorBar(img, label, lo, hi, log)
+	ColorBar(img, label, lo, hi, scale)
 	return img
+}
+
+// shorten cuts s to fit width pixels, ending it with "…" when cut.
+func shorten(fc font.Face, s string, width int) string {
+	if textWidth(fc, s) <= width {
+		return s
+	}
+	r := []rune(s)
+	for len(r) > 1 && textWidth(fc, string(r)+"…") > width {
+		r = r[:len(r)-1]
+	}
+	return string(r) + "…"
 }

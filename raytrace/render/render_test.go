@@ -2,6 +2,7 @@ package render
 
 import (
 	"image/color"
+	"math"
 	"testing"
 
 	"github.com/hemiray/hemiray/geometry"
@@ -64,7 +65,7 @@ func TestColorBarMonotonic(t *testing.T) {
 	if c := Viridis(1); absDiff(c.R, 0xFD) > 4 || absDiff(c.G, 0xE7) > 4 || absDiff(c.B, 0x25) > 4 {
 		t.Errorf("viridis(1) = %v, want #FDE725", c)
 	}
-	img := HeatMap([]string{"a", "b"}, []string{"a", "b", "ambient"}, [][]float64{{0, 0.5, 0.5}, {0.25, 0, 0.75}}, false)
+	img := HeatMap("view factor F(row → column)", []string{"a", "b"}, []string{"a", "b", "ambient"}, [][]float64{{0, 0.5, 0.5}, {0.25, 0, 0.75}}, false)
 	// The bar in the heat map runs dark (bottom) to light (top).
 	x := img.Bounds().Max.X - 91
 	top, bottom := img.RGBAAt(x, 45), img.RGBAAt(x, img.Bounds().Max.Y-35)
@@ -83,9 +84,72 @@ func absDiff(a, b uint8) int {
 func BenchmarkRender(b *testing.B) {
 	m := mesh.Sphere("s", geometry.Vec3{}, 1, 289, false) // 1,002,252 facets
 	s := scene(m)
-	cam := Frame(m.Bounds(), View{35, 25}, 1024, 768)
+	cam := Frame(m.Bounds(), View{Azimuth: 35, Elevation: 25}, 1024, 768)
 	b.ResetTimer()
 	for b.Loop() {
 		Render(s, cam, 0)
+	}
+}
+
+// With Up = "y" the picture's up is +y: an outward box seen from 0°, 0°
+// shows face zmax at the centre and ymax above it.
+func TestUpAxisY(t *testing.T) {
+	m := mesh.Box("", geometry.Box{Min: geometry.Vec3{X: -1, Y: -1, Z: -1}, Max: geometry.Vec3{X: 1, Y: 1, Z: 1}}, 3, false)
+	cam := Frame(m.Bounds(), View{Azimuth: 0, Elevation: 30, Up: "y"}, 201, 201)
+	img := Render(scene(m), cam, 1)
+	if got, want := img.RGBAAt(100, 130), SurfaceColor(m.SurfaceIndex("zmax")); !sameHue(got, want) {
+		t.Errorf("below the centre: %v, want zmax's hue %v", got, want)
+	}
+	if got, want := img.RGBAAt(100, 70), SurfaceColor(m.SurfaceIndex("ymax")); !sameHue(got, want) {
+		t.Errorf("above the centre: %v, want ymax's hue %v", got, want)
+	}
+}
+
+// sameHue reports whether a shaded colour is a darkening of want.
+func sameHue(got, want color.RGBA) bool {
+	k := float64(int(got.R)+int(got.G)+int(got.B)) / float64(int(want.R)+int(want.G)+int(want.B))
+	d := func(g, w uint8) float64 { return float64(g) - k*float64(w) }
+	return math.Abs(d(got.R, want.R)) < 4 && math.Abs(d(got.G, want.G)) < 4 && math.Abs(d(got.B, want.B)) < 4
+}
+
+// Round ticks: steps of 1, 2 or 5 × 10^k inside the range (Heckbert 1990).
+func TestNiceTicks(t *testing.T) {
+	tests := []struct {
+		lo, hi float64
+		want   []float64
+	}{
+		{0, 1, []float64{0, 0.2, 0.4, 0.6, 0.8, 1}},
+		{-55.75, 476.19, []float64{0, 100, 200, 300, 400}},
+		{298.1, 381.3, []float64{300, 320, 340, 360, 380}},
+	}
+	for _, tc := range tests {
+		got := NiceTicks(tc.lo, tc.hi, 5)
+		if len(got) != len(tc.want) {
+			t.Errorf("NiceTicks(%v, %v) = %v, want %v", tc.lo, tc.hi, got, tc.want)
+			continue
+		}
+		for k := range got {
+			if math.Abs(got[k]-tc.want[k]) > 1e-12 {
+				t.Errorf("NiceTicks(%v, %v) = %v, want %v", tc.lo, tc.hi, got, tc.want)
+				break
+			}
+		}
+	}
+}
+
+// The diverging map is grey at zero, blue below, red above, and its
+// lightness falls symmetrically from the middle.
+func TestDiverging(t *testing.T) {
+	if c := Diverging(0.5); c.R != c.G || c.G != c.B {
+		t.Errorf("zero is %v, want grey", c)
+	}
+	if lo, hi := Diverging(0), Diverging(1); !(lo.B > lo.R && hi.R > hi.B) {
+		t.Errorf("ends %v %v", lo, hi)
+	}
+	for k := 1; k <= 50; k++ {
+		a, b := luminance(Diverging(0.5-float64(k)/100)), luminance(Diverging(0.5-float64(k-1)/100))
+		if a > b {
+			t.Fatalf("lightness rises toward the cool end at %d", k)
+		}
 	}
 }

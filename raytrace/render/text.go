@@ -6,6 +6,7 @@ import (
 	"image/color"
 	"image/draw"
 	"math"
+	"strconv"
 	"strings"
 
 	"golang.org/x/image/font"
@@ -84,10 +85,29 @@ func Legend(img *image.RGBA, title string, names []string, colors []color.RGBA) 
 	}
 }
 
-// ColorBar draws a vertical viridis bar at the right edge with ticks from
-// lo to hi and a label (the quantity and its unit). With log, values are
-// shown on a base-10 logarithmic scale.
-func ColorBar(img *image.RGBA, label string, lo, hi float64, log bool) {
+// Scale is how a colour bar maps values to colours.
+type Scale int
+
+const (
+	Linear Scale = iota // viridis from lo to hi
+	Log                 // viridis over log10 of the values (lo, hi are logarithms)
+	Signed              // the diverging map, grey at zero; lo = −hi
+)
+
+// Color returns the colour of value v on a bar from lo to hi.
+func (s Scale) Color(v, lo, hi float64) color.RGBA {
+	t := (v - lo) / (hi - lo)
+	if s == Signed {
+		return Diverging(t)
+	}
+	return Viridis(t)
+}
+
+// ColorBar draws a vertical colour bar at the right edge with round tick
+// values (NiceTicks) from lo to hi and a label (the quantity and its unit).
+// With Log, lo and hi are base-10 logarithms and ticks fall on powers of
+// ten; with Signed the bar is the diverging map with zero in the middle.
+func ColorBar(img *image.RGBA, label string, lo, hi float64, scale Scale) {
 	fc := face(13)
 	b := img.Bounds()
 	x0, y0 := b.Max.X-100, 40
@@ -96,19 +116,21 @@ func ColorBar(img *image.RGBA, label string, lo, hi float64, log bool) {
 	fill(img, image.Rect(x0-8, 8, b.Max.X, b.Max.Y), color.RGBA{255, 255, 255, 255})
 	text(img, fc, x0-4, 26, label, ink)
 	for y := y0; y <= y1; y++ {
-		c := Viridis(float64(y1-y) / float64(y1-y0))
-		fill(img, image.Rect(x0, y, x0+18, y+1), c)
+		v := lo + (hi-lo)*float64(y1-y)/float64(y1-y0)
+		fill(img, image.Rect(x0, y, x0+18, y+1), scale.Color(v, lo, hi))
 	}
-	const ticks = 5
-	for k := range ticks {
-		f := float64(k) / (ticks - 1)
-		y := y1 - int(math.Round(f*float64(y1-y0)))
-		v := lo + f*(hi-lo)
-		if log {
-			v = math.Pow(10, v)
+	ticks := NiceTicks(lo, hi, 5)
+	if scale == Log {
+		ticks = NiceTicks(math.Ceil(lo), math.Floor(hi), int(math.Floor(hi)-math.Ceil(lo))+1)
+	}
+	for _, v := range ticks {
+		y := y1 - int(math.Round((v-lo)/(hi-lo)*float64(y1-y0)))
+		shown := v
+		if scale == Log {
+			shown = math.Pow(10, v)
 		}
 		fill(img, image.Rect(x0+18, y, x0+23, y+1), ink)
-		text(img, fc, x0+26, y+5, fmt.Sprintf("%.4g", v), ink)
+		text(img, fc, x0+26, y+5, strconv.FormatFloat(shown, 'g', 6, 64), ink)
 	}
 }
 

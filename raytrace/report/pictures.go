@@ -7,6 +7,7 @@ import (
 	"io"
 	"math"
 	"path/filepath"
+	"sync/atomic"
 
 	"github.com/hemiray/hemiray/geometry"
 	"github.com/hemiray/hemiray/mesh"
@@ -70,13 +71,21 @@ func (p *Picture) draw(view render.View, w, h int, colour func(int32, bool) colo
 	return render.Render(sc, cam, 0)
 }
 
-// BySurface colours facets by surface, with a legend.
+// BySurface colours facets by surface, with a legend of the surfaces the
+// picture shows.
 func (p *Picture) BySurface(view render.View, w, h int) *image.RGBA {
-	img := p.draw(view, w, h, func(f int32, _ bool) color.RGBA { return render.SurfaceColor(int(p.m.SurfaceOf[f])) }, false)
+	seen := make([]atomic.Bool, len(p.m.Surfaces)) // the renderer draws rows in parallel
+	img := p.draw(view, w, h, func(f int32, _ bool) color.RGBA {
+		s := p.m.SurfaceOf[f]
+		seen[s].Store(true)
+		return render.SurfaceColor(int(s))
+	}, false)
 	var names []string
 	var cols []color.RGBA
 	for i, s := range p.m.Surfaces {
-		names, cols = append(names, s.Name), append(cols, render.SurfaceColor(i))
+		if seen[i].Load() {
+			names, cols = append(names, s.Name), append(cols, render.SurfaceColor(i))
+		}
 	}
 	render.Legend(img, "surfaces", names, cols)
 	render.Caption(img, "hemiray: surfaces; the backs of one-sided surfaces are see-through, so enclosures show their inside")
@@ -97,12 +106,20 @@ func (p *Picture) BySide(view render.View, w, h int) *image.RGBA {
 }
 
 // ByField colours each node side by a value, with a colour bar; sides
-// without a value are grey.
-func (p *Picture) ByField(view render.View, w, h int, nodes []raytrace.Node, value map[string]float64, label string) *image.RGBA {
+// without a value are grey. A signed quantity (a net heat flux) takes the
+// diverging map centred on zero, so what gives off heat and what takes it
+// up differ in hue; other quantities take viridis.
+func (p *Picture) ByField(view render.View, w, h int, nodes []raytrace.Node, value map[string]float64, label string, signed bool) *image.RGBA {
 	front, back := facetNodes(p.m, nodes)
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, v := range value {
 		lo, hi = math.Min(lo, v), math.Max(hi, v)
+	}
+	scale := render.Linear
+	if signed {
+		scale = render.Signed
+		hi = math.Max(math.Abs(lo), math.Abs(hi))
+		lo = -hi
 	}
 	if !(hi > lo) {
 		lo, hi = lo-0.5, lo+0.5
@@ -115,7 +132,7 @@ func (p *Picture) ByField(view render.View, w, h int, nodes []raytrace.Node, val
 		if !ok {
 			return render.NoData, false
 		}
-		return render.Viridis((v - lo) / (hi - lo)), true
+		return scale.Color(v, lo, hi), true
 	}
 	img := p.draw(view, w, h, func(f int32, isFront bool) color.RGBA {
 		n := back[f]
@@ -125,12 +142,16 @@ func (p *Picture) ByField(view render.View, w, h int, nodes []raytrace.Node, val
 		c, _ := of(n)
 		return c
 	}, false)
-	render.ColorBar(img, label, lo, hi, false)
+	render.ColorBar(img, label, lo, hi, scale)
 	what := map[string]string{"q [W/m²]": "net radiative heat flux leaving each surface (negative: absorbed)", "T [K]": "temperature"}[label]
 	if what == "" {
 		what = label
 	}
-	render.Caption(img, "hemiray: "+what+"; grey: no value; backs of one-sided surfaces are see-through")
+	key := "grey: no value"
+	if signed {
+		key = "red: given off, blue: taken up, light grey: near zero; mid grey: no value"
+	}
+	render.Caption(img, "hemiray: "+what+"; "+key+"; backs of one-sided surfaces are see-through")
 	return img
 }
 
@@ -146,6 +167,9 @@ func WritePNG(path string, img image.Image) error {
 func writePictures(dir string, in *analysis.Input, nodes []raytrace.Node, res *raytrace.Result, a *analysis.Result) ([]string, error) {
 	p := NewPicture(in.Mesh, in.Settings.TwoSided)
 	view := render.View{Azimuth: 35, Elevation: 25}
+	if in.Case != nil {
+		view.Up = in.Case.Output.Up
+	}
 	written := []string{"model_surfaces.png"}
 	if err := WritePNG(filepath.Join(dir, "model_surfaces.png"), p.BySurface(view, 1024, 768)); err != nil {
 		return nil, err
@@ -155,7 +179,7 @@ func writePictures(dir string, in *analysis.Input, nodes []raytrace.Node, res *r
 		for i, n := range nodes {
 			q[n.Name] = a.Solution.Flux(i)
 		}
-		if err := WritePNG(filepath.Join(dir, "model_heatflux.png"), p.ByField(view, 1024, 768, nodes, q, "q [W/m²]")); err != nil {
+		if err := WritePNG(filepath.Join(dir, "model_heatflux.png"), p.ByField(view, 1024, 768, nodes, q, "q [W/m²]", true)); err != nil {
 			return nil, err
 		}
 		written = append(written, "model_heatflux.png")
@@ -163,7 +187,9 @@ func writePictures(dir string, in *analysis.Input, nodes []raytrace.Node, res *r
 	if len(nodes) <= SquareLimit {
 		var rows, cols []string
 		var F [][]float64
+		title := "raw view factors F(row → column)"
 		if a != nil {
+			title = "smoothed view factors F(row → column)"
 			cols = nodeColumns(a)
 			for i := range nodes {
 				F = append(F, smoothedRow(a, i, make([]float64, len(cols))))
@@ -185,7 +211,7 @@ func writePictures(dir string, in *analysis.Input, nodes []raytrace.Node, res *r
 			if log {
 				name = "viewfactors_heatmap_log.png"
 			}
-			if err := WritePNG(filepath.Join(dir, name), render.HeatMap(rows, cols, F, log)); err != nil {
+			if err := WritePNG(filepath.Join(dir, name), render.HeatMap(title, rows, cols, F, log)); err != nil {
 				return nil, err
 			}
 			written = append(written, name)
