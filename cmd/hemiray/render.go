@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"image"
 	"io"
-	"strings"
 
 	"github.com/hemiray/hemiray/raytrace/render"
 	"github.com/hemiray/hemiray/raytrace/report"
@@ -71,7 +70,7 @@ AZIMUTH,ELEVATION in degrees (default 35,25).`,
 		}
 		file := *out
 		if file == "" {
-			file = "model_" + strings.ReplaceAll(*colorBy, ":", "_") + ".png"
+			file = report.PictureName(*colorBy)
 		}
 		p := report.NewPicture(in.Mesh, in.Settings.TwoSided)
 		var img *image.RGBA

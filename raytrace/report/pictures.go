@@ -7,6 +7,7 @@ import (
 	"io"
 	"math"
 	"path/filepath"
+	"strings"
 	"sync/atomic"
 
 	"github.com/hemiray/hemiray/geometry"
@@ -155,6 +156,22 @@ func (p *Picture) ByField(view render.View, w, h int, nodes []raytrace.Node, val
 	return img
 }
 
+// PictureName is the file name of a picture coloured by colorBy, the same
+// for render and for the pictures run writes: model_surfaces.png,
+// model_heatflux.png, model_temperature.png, model_sides.png,
+// model_ambient.png, model_vf_NODE.png.
+func PictureName(colorBy string) string {
+	switch colorBy {
+	case "surface":
+		return "model_surfaces.png"
+	case "side":
+		return "model_sides.png"
+	case "heat-flux":
+		return "model_heatflux.png"
+	}
+	return "model_" + strings.NewReplacer(":", "_", "/", "_", string(filepath.Separator), "_").Replace(colorBy) + ".png"
+}
+
 // WritePNG writes img as a PNG file atomically.
 func WritePNG(path string, img image.Image) error {
 	return atomicfile.Write(path, func(w io.Writer) error { return png.Encode(w, img) })
@@ -170,8 +187,8 @@ func writePictures(dir string, in *analysis.Input, nodes []raytrace.Node, res *r
 	if in.Case != nil {
 		view.Up = in.Case.Output.Up
 	}
-	written := []string{"model_surfaces.png"}
-	if err := WritePNG(filepath.Join(dir, "model_surfaces.png"), p.BySurface(view, 1024, 768)); err != nil {
+	written := []string{PictureName("surface")}
+	if err := WritePNG(filepath.Join(dir, PictureName("surface")), p.BySurface(view, 1024, 768)); err != nil {
 		return nil, err
 	}
 	if a != nil {
@@ -179,10 +196,10 @@ func writePictures(dir string, in *analysis.Input, nodes []raytrace.Node, res *r
 		for i, n := range nodes {
 			q[n.Name] = a.Solution.Flux(i)
 		}
-		if err := WritePNG(filepath.Join(dir, "model_heatflux.png"), p.ByField(view, 1024, 768, nodes, q, "q [W/m²]", true)); err != nil {
+		if err := WritePNG(filepath.Join(dir, PictureName("heat-flux")), p.ByField(view, 1024, 768, nodes, q, "q [W/m²]", true)); err != nil {
 			return nil, err
 		}
-		written = append(written, "model_heatflux.png")
+		written = append(written, PictureName("heat-flux"))
 	}
 	if len(nodes) <= SquareLimit {
 		var rows, cols []string
