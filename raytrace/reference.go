@@ -57,25 +57,30 @@ func ReferenceCases() []ReferenceCase {
 	v := func(x, y, z float64) geometry.Vec3 { return geometry.Vec3{X: x, Y: y, Z: z} }
 	var cs []ReferenceCase
 
-	// Directly opposed unit squares 1 apart; top faces down.
-	cs = append(cs, ReferenceCase{
-		Name: "parallel squares", From: "bottom", To: "top",
-		Reference: geometry.FParallelRectangles(1, 1, 1),
-		Source:    "Howell catalogue C-11, parallel opposed rectangles",
-		Why:       "flat rectangles are exact",
-		Mesh: must(join(mesh.Rectangle("bottom", v(0, 0, 0), v(1, 0, 0), v(0, 1, 0), 8, 8),
-			mesh.Rectangle("top", v(0, 0, 1), v(0, 1, 0), v(1, 0, 0), 8, 8))),
-	})
-
-	// Perpendicular 1 × 2 and 0.5 × 2 rectangles sharing the 2 m edge (the y axis).
-	cs = append(cs, ReferenceCase{
-		Name: "perpendicular rectangles", From: "floor", To: "wall",
-		Reference: geometry.FPerpendicularRectangles(1, 0.5, 2),
-		Source:    "Howell catalogue C-14, perpendicular rectangles with a common edge",
-		Why:       "flat rectangles are exact",
-		Mesh: must(join(mesh.Rectangle("floor", v(0, 0, 0), v(1, 0, 0), v(0, 2, 0), 8, 8),
-			mesh.Rectangle("wall", v(0, 0, 0), v(0, 2, 0), v(0, 0, 0.5), 8, 8))),
-	})
+	// Directly opposed unit squares 1 apart (top faces down), and
+	// perpendicular 1 × 2 and 0.5 × 2 rectangles sharing the 2 m edge (the
+	// y axis), each in n × n facets.
+	parallel := func(name string, n int) ReferenceCase {
+		return ReferenceCase{
+			Name: name, From: "bottom", To: "top",
+			Reference: geometry.FParallelRectangles(1, 1, 1),
+			Source:    "Howell catalogue C-11, parallel opposed rectangles",
+			Why:       "flat rectangles are exact",
+			Mesh: must(join(mesh.Rectangle("bottom", v(0, 0, 0), v(1, 0, 0), v(0, 1, 0), n, n),
+				mesh.Rectangle("top", v(0, 0, 1), v(0, 1, 0), v(1, 0, 0), n, n))),
+		}
+	}
+	perpendicular := func(name string, n int) ReferenceCase {
+		return ReferenceCase{
+			Name: name, From: "floor", To: "wall",
+			Reference: geometry.FPerpendicularRectangles(1, 0.5, 2),
+			Source:    "Howell catalogue C-14, perpendicular rectangles with a common edge",
+			Why:       "flat rectangles are exact",
+			Mesh: must(join(mesh.Rectangle("floor", v(0, 0, 0), v(1, 0, 0), v(0, 2, 0), n, n),
+				mesh.Rectangle("wall", v(0, 0, 0), v(0, 2, 0), v(0, 0, 0.5), n, n))),
+		}
+	}
+	cs = append(cs, parallel("parallel squares", 8), perpendicular("perpendicular rectangles", 8))
 
 	// Coaxial disks r1 = 0.5 and r2 = 1, 1 apart.
 	{
@@ -194,22 +199,7 @@ func ReferenceCases() []ReferenceCase {
 	// allowance, and each emitting facet is half its surface, so an emitter
 	// that does not spread its rays uniformly over each facet (from the
 	// centroids, say) misses these values by far more than 4σ.
-	cs = append(cs, ReferenceCase{
-		Name: "parallel squares, coarse", From: "bottom", To: "top",
-		Reference: geometry.FParallelRectangles(1, 1, 1),
-		Source:    "Howell catalogue C-11, parallel opposed rectangles",
-		Why:       "flat rectangles are exact",
-		Mesh: must(join(mesh.Rectangle("bottom", v(0, 0, 0), v(1, 0, 0), v(0, 1, 0), 1, 1),
-			mesh.Rectangle("top", v(0, 0, 1), v(0, 1, 0), v(1, 0, 0), 1, 1))),
-	})
-	cs = append(cs, ReferenceCase{
-		Name: "perpendicular rectangles, coarse", From: "floor", To: "wall",
-		Reference: geometry.FPerpendicularRectangles(1, 0.5, 2),
-		Source:    "Howell catalogue C-14, perpendicular rectangles with a common edge",
-		Why:       "flat rectangles are exact",
-		Mesh: must(join(mesh.Rectangle("floor", v(0, 0, 0), v(1, 0, 0), v(0, 2, 0), 1, 1),
-			mesh.Rectangle("wall", v(0, 0, 0), v(0, 2, 0), v(0, 0, 0.5), 1, 1))),
-	})
+	cs = append(cs, parallel("parallel squares, coarse", 1), perpendicular("perpendicular rectangles, coarse", 1))
 	cube := mesh.Box("", geometry.Box{Max: v(1, 1, 1)}, 1, true)
 	cs = append(cs, ReferenceCase{
 		Name: "closed cube, opposite faces, coarse", From: "zmin", To: "zmax",
