@@ -237,7 +237,6 @@ func NewResult(nodes []Node, t Tally, replicas []Tally, opts Options) (*Result, 
 	return &Result{Nodes: nodes, Tally: t, Replicas: replicas, Options: opts, Threads: opts.Threads, z: zScore(opts.Confidence)}, nil
 }
 
-
 // Missed is a node whose row did not reach the HalfWidth target.
 type Missed struct {
 	Node      int
