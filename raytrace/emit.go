@@ -52,11 +52,7 @@ func newNodeEmitter(n *Node, area []float64) nodeEmitter {
 		e.sign = -1
 	}
 	if len(n.Facets) > 1 {
-		w := make([]float64, len(n.Facets))
-		for k, f := range n.Facets {
-			w[k] = area[f]
-		}
-		e.pick = sample.NewLabeledAlias(w, n.Facets)
+		e.pick = sample.NewLabeledAlias(n.Facets, func(f int32) float64 { return area[f] })
 	}
 	return e
 }

@@ -30,16 +30,17 @@ func NewAlias(w []float64) Alias {
 	for i := range labels {
 		labels[i] = int32(i)
 	}
-	return NewLabeledAlias(w, labels)
+	return NewLabeledAlias(labels, func(i int32) float64 { return w[i] })
 }
 
-// NewLabeledAlias is NewAlias with Pick returning labels[i] for index i
-// (facet ids, say), which saves the caller a lookup per pick. labels must
-// be as long as w.
-func NewLabeledAlias(w []float64, labels []int32) Alias {
-	n := len(w)
-	if len(labels) != n {
-		panic("sample.NewLabeledAlias: labels and weights differ in length")
+// NewLabeledAlias is NewAlias over labels (facet ids, say) with Pick
+// returning a label, which saves the caller a lookup per pick; weight gives
+// each label's weight.
+func NewLabeledAlias(labels []int32, weight func(label int32) float64) Alias {
+	n := len(labels)
+	w := make([]float64, n)
+	for i, l := range labels {
+		w[i] = weight(l)
 	}
 	prob, alias := make([]float64, n), make([]int32, n)
 	total := 0.0

@@ -120,9 +120,8 @@ func TestAlias(t *testing.T) {
 
 // A labelled table returns the labels with the indices' frequencies.
 func TestLabeledAlias(t *testing.T) {
-	w := []float64{3, 0, 1}
-	labels := []int32{70, 71, 72}
-	a := NewLabeledAlias(w, labels)
+	w := map[int32]float64{70: 3, 71: 0, 72: 1}
+	a := NewLabeledAlias([]int32{70, 71, 72}, func(l int32) float64 { return w[l] })
 	s := NewStream(9, 0, 0)
 	const n = 400000
 	counts := map[int32]int{}
