@@ -157,6 +157,9 @@ func TInterval(rows [][]float64, confidence float64) []float64 {
 			ss += (r[i] - m) * (r[i] - m)
 		}
 		out[i] = t * math.Sqrt(ss/float64(R-1)) / math.Sqrt(float64(R))
+		if out[i] <= 1e-12*math.Abs(m) {
+			out[i] = 0 // replicates equal to round-off: a fixed value, not an uncertainty
+		}
 	}
 	return out
 }
