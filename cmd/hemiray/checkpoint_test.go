@@ -207,7 +207,7 @@ func TestTimeLimit(t *testing.T) {
 	dir := t.TempDir()
 	box := writeBox(t, dir)
 	out := filepath.Join(dir, "out")
-	code, _, e := runCLI("trace", box, "--rays", "50000000", "--time-limit", "400ms", "--quiet", "-o", out)
+	code, _, e := runCLI("trace", box, "--rays", "50000000", "--time-limit", "1s", "--quiet", "-o", out)
 	if code != 0 || !strings.Contains(e, "time limit") {
 		t.Fatalf("exit %d, %q", code, e)
 	}
@@ -269,7 +269,7 @@ func TestIncompleteAndMissedTargets(t *testing.T) {
 	cs := filepath.Join(dir, "c.toml")
 	os.WriteFile(cs, []byte("[model]\nfiles = [\""+box+"\"]\n[defaults]\nemissivity = 0.5\ntemperature = 300\n[surfaces.zmin]\ntemperature = 400\n"), 0o644)
 	out := filepath.Join(dir, "out")
-	code, _, e := runCLI("run", cs, "--rays", "50000000", "--time-limit", "1500ms", "--quiet", "--no-pictures", "-o", out)
+	code, _, e := runCLI("run", cs, "--rays", "50000000", "--time-limit", "3s", "--quiet", "--no-pictures", "-o", out)
 	if code != 0 {
 		t.Fatalf("run: exit %d, %s", code, e)
 	}
