@@ -51,7 +51,7 @@ func writeBox(t *testing.T, dir string) string {
 	return p
 }
 
-var compared = []string{"viewfactors.csv", "viewfactors_halfwidth.csv", "viewfactors_pairs.csv", "tallies.csv", "tallies.bin"}
+var compared = []string{"viewfactors.csv", "viewfactors_halfwidth.csv", "viewfactors_pairs.csv", "viewfactors.mtx", "nodes.csv", "tallies.csv", "tallies.bin"}
 
 func sameOutputs(t *testing.T, a, b string) {
 	t.Helper()

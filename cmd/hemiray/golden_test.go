@@ -14,7 +14,7 @@ import (
 // result for every user.
 var update = flag.Bool("update", false, "rewrite the golden output files in testdata/demo")
 
-// The demo's CSV outputs, byte for byte. Any change to sampling, tallying,
+// The demo's CSV and Matrix Market outputs, byte for byte. Any change to sampling, tallying,
 // smoothing, the solve or the writers shows up here as a reviewed diff.
 func TestDemoGolden(t *testing.T) {
 	if testing.Short() {
@@ -26,6 +26,8 @@ func TestDemoGolden(t *testing.T) {
 	}
 	results := filepath.Join(dir, "results")
 	got, _ := filepath.Glob(filepath.Join(results, "*.csv"))
+	mtx, _ := filepath.Glob(filepath.Join(results, "*.mtx"))
+	got = append(got, mtx...)
 	golden := filepath.Join("testdata", "demo")
 	if *update {
 		os.RemoveAll(golden)
@@ -38,6 +40,8 @@ func TestDemoGolden(t *testing.T) {
 		return
 	}
 	want, _ := filepath.Glob(filepath.Join(golden, "*.csv"))
+	wantMTX, _ := filepath.Glob(filepath.Join(golden, "*.mtx"))
+	want = append(want, wantMTX...)
 	if len(want) == 0 || len(want) != len(got) {
 		t.Fatalf("demo wrote %d CSV files, %d golden ones (run with -update to create them)", len(got), len(want))
 	}

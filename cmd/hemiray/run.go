@@ -27,6 +27,7 @@ conditions, and writes, besides the files of trace:
   viewfactors_smoothed_pairs.csv  raw and smoothed factors, and how far each moved
   surfaces.csv                    per node: area, emissivity, condition, T, J, q, Q (± intervals)
   conductances.csv                total exchange factors and radiative conductances σ·A_i·ℱ_ij
+  *.mtx                           smoothed matrix and conductances in Matrix Market format
   tallies.csv                     raw ray counts, from which solve can redo the analysis
 
 Intervals on T and Q come from --replicates independent sub-samples of the

@@ -23,6 +23,7 @@ Monte Carlo ray tracing and writes, in the output folder:
   viewfactors.csv            square matrix, one row per emitting node
   viewfactors_halfwidth.csv  the same shape: confidence-interval half-widths
   viewfactors_pairs.csv      from,to,F,F_lo,F_hi,stderr,halfwidth,hits,rays per non-zero pair
+  viewfactors.mtx            the same matrix in Matrix Market format; nodes.csv names its indices
   summary.json               settings, input hash, rays, timings, row sums, warnings
 
 A node is a surface (or each facet with --facets); a two-sided surface adds

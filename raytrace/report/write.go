@@ -56,6 +56,10 @@ func Write(dir string, o Outputs) ([]string, error) {
 			return nil, err
 		}
 		written = append(written, vf...)
+		if err := writeRawMTX(dir, t.Result); err != nil {
+			return nil, err
+		}
+		written = append(written, "viewfactors.mtx")
 		if len(nodes) <= SquareLimit {
 			if err := writeTallies(dir, t.Result, analysis.SurfaceNames(o.Input.Mesh)); err != nil {
 				return nil, err
@@ -74,6 +78,11 @@ func Write(dir string, o Outputs) ([]string, error) {
 			return nil, err
 		}
 		written = append(written, "surfaces.csv")
+		mtx, err := writeAnalysisMTX(dir, a)
+		if err != nil {
+			return nil, err
+		}
+		written = append(written, mtx...)
 		if a.S != nil {
 			if err := writeConductances(dir, a); err != nil {
 				return nil, err
@@ -81,6 +90,10 @@ func Write(dir string, o Outputs) ([]string, error) {
 			written = append(written, "conductances.csv")
 		}
 	}
+	if err := writeNodes(dir, nodes); err != nil {
+		return nil, err
+	}
+	written = append(written, "nodes.csv")
 	sum, err := newSummary(o.Input, o.Traced, o.Analysis, o.Warnings())
 	if err != nil {
 		return nil, err

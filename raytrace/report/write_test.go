@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"math"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"slices"
 	"strconv"
@@ -104,5 +105,43 @@ func TestMatchField(t *testing.T) {
 		if err := MatchField(tc.values, nodes, "dir"); (err == nil) != tc.ok {
 			t.Errorf("%v: %v", tc.values, err)
 		}
+	}
+}
+
+// The Matrix Market files read back with an independent reader, SciPy's
+// scipy.io.mmread, when Debian's python3-scipy is installed (CI installs
+// it): the smoothed matrix and the conductances equal the analysis's, the
+// conductances symmetric with the ambient last.
+func TestMatrixMarketReadsBack(t *testing.T) {
+	in, a := givenCabinet(t)
+	dir := t.TempDir()
+	if _, err := Write(dir, Outputs{Input: in, Analysis: a}); err != nil {
+		t.Fatal(err)
+	}
+	py := "/usr/bin/python3"
+	if _, err := os.Stat(py); err != nil {
+		t.Skip("no system python3")
+	}
+	script := `import sys, scipy.io
+F = scipy.io.mmread(sys.argv[1]).toarray(); G = scipy.io.mmread(sys.argv[2]).toarray()
+print(F.shape[0], F.shape[1], G.shape[0], repr(F[0][1]), repr(F[1][2]), repr(G[1][0]), repr(G[0][1]), repr(G[2][0]))`
+	out, err := exec.Command(py, "-c", script, filepath.Join(dir, "viewfactors_smoothed.mtx"), filepath.Join(dir, "conductances.mtx")).CombinedOutput()
+	if err != nil {
+		if strings.Contains(string(out), "No module named") {
+			if os.Getenv("HEMIRAY_SCIPY_REQUIRED") == "1" {
+				t.Fatalf("python3-scipy required: %s", out)
+			}
+			t.Skip("python3-scipy not installed: Matrix Market read-back skipped")
+		}
+		t.Fatalf("scipy: %v\n%s", err, out)
+	}
+	f := strings.Fields(string(out))
+	val := func(k int) float64 { x, _ := strconv.ParseFloat(f[k], 64); return x }
+	sigma := 5.670374419e-8
+	if f[0] != "2" || f[1] != "3" || f[2] != "3" ||
+		val(3) != a.Smoothed.F[0].At(1) || val(4) != a.Smoothed.Ambient[1] ||
+		val(5) != sigma*a.S[1][0] || val(6) != val(5) || val(7) != sigma*a.ToAmbient[0] {
+		t.Errorf("scipy reads %v; want F01 %v, F1amb %v, G10 = G01 = %v, G amb0 %v",
+			f, a.Smoothed.F[0].At(1), a.Smoothed.Ambient[1], sigma*a.S[1][0], sigma*a.ToAmbient[0])
 	}
 }

@@ -1,0 +1,150 @@
+package report
+
+import (
+	"fmt"
+	"io"
+	"path/filepath"
+
+	"github.com/hemiray/hemiray/raytrace"
+	"github.com/hemiray/hemiray/raytrace/analysis"
+	"github.com/hemiray/hemiray/raytrace/exchange"
+	"github.com/hemiray/hemiray/raytrace/internal/atomicfile"
+)
+
+// The sparse matrices also go out in the Matrix Market coordinate format
+// (Boisvert, Pozo & Remington, "The Matrix Market exchange formats: initial
+// design", NIST IR 5935, 1996; from memory), which SciPy (scipy.io.mmread),
+// MATLAB, Julia and most sparse solvers read: a banner, a size line, then
+// "i j value" with 1-based indices. Index k is the node on line k of
+// nodes.csv; index N+1 is the ambient. Only stored entries are written, so
+// a facet-level model's file grows with the pairs seen, not with N².
+
+func writeMTX(path, symmetry, comment string, rows, cols, entries int, body func(put func(i, j int, v float64) error) error) error {
+	return atomicfile.Write(path, func(w io.Writer) error {
+		lw := newLineWriter(w)
+		lw.buf = fmt.Appendf(lw.buf, "%%%%MatrixMarket matrix coordinate real %s\n%% %s\n%d %d %d\n", symmetry, comment, rows, cols, entries)
+		err := body(func(i, j int, v float64) error {
+			lw.int(int64(i + 1))
+			lw.buf = append(lw.buf, ' ')
+			lw.buf = fmt.Append(lw.buf, j+1)
+			lw.buf = append(lw.buf, ' ')
+			lw.buf = append(lw.buf, num(v)...)
+			return lw.end()
+		})
+		if err != nil {
+			return err
+		}
+		return lw.flush()
+	})
+}
+
+// writeRawMTX writes viewfactors.mtx: the raw view factors, N × (N+1).
+func writeRawMTX(dir string, res *raytrace.Result) error {
+	n := len(res.Nodes)
+	nnz := 0
+	for i := range n {
+		nnz += res.Hits[i].Len()
+		if res.Escaped[i] > 0 {
+			nnz++
+		}
+	}
+	return writeMTX(filepath.Join(dir, "viewfactors.mtx"), "general",
+		"hemiray raw view factors F(row -> column); index N+1 is the ambient; names in nodes.csv", n, n+1, nnz,
+		func(put func(i, j int, v float64) error) error {
+			for i := range n {
+				row := &res.Hits[i]
+				for k, j := range row.Col {
+					if err := put(i, int(j), float64(row.Val[k])/float64(res.Rays[i])); err != nil {
+						return err
+					}
+				}
+				if res.Escaped[i] > 0 {
+					if err := put(i, n, float64(res.Escaped[i])/float64(res.Rays[i])); err != nil {
+						return err
+					}
+				}
+			}
+			return nil
+		})
+}
+
+// writeAnalysisMTX writes viewfactors_smoothed.mtx (N × (N+1)) and, when
+// the exchange areas were computed, conductances.mtx: σ·A_i·ℱ_ij in W/K⁴,
+// symmetric, (N+1) × (N+1) with the ambient last, lower triangle stored.
+func writeAnalysisMTX(dir string, a *analysis.Result) ([]string, error) {
+	n := len(a.Nodes)
+	nnz := 0
+	for i := range n {
+		nnz += a.Smoothed.F[i].Len()
+		if a.Smoothed.Ambient[i] > 0 {
+			nnz++
+		}
+	}
+	err := writeMTX(filepath.Join(dir, "viewfactors_smoothed.mtx"), "general",
+		"hemiray smoothed view factors F(row -> column); index N+1 is the ambient; names in nodes.csv", n, n+1, nnz,
+		func(put func(i, j int, v float64) error) error {
+			for i := range n {
+				row := &a.Smoothed.F[i]
+				for k, j := range row.Col {
+					if err := put(i, int(j), row.Val[k]); err != nil {
+						return err
+					}
+				}
+				if f := a.Smoothed.Ambient[i]; f > 0 {
+					if err := put(i, n, f); err != nil {
+						return err
+					}
+				}
+			}
+			return nil
+		})
+	if err != nil || a.S == nil {
+		return []string{"viewfactors_smoothed.mtx"}, err
+	}
+	nnz = 0
+	for i := range n {
+		for j := range i {
+			if a.S[i][j] > 0 {
+				nnz++
+			}
+		}
+		if a.ToAmbient != nil && a.ToAmbient[i] > 0 {
+			nnz++
+		}
+	}
+	err = writeMTX(filepath.Join(dir, "conductances.mtx"), "symmetric",
+		"hemiray radiative conductances sigma*A_i*(script F)_ij in W/K^4; index N+1 is the ambient; names in nodes.csv", n+1, n+1, nnz,
+		func(put func(i, j int, v float64) error) error {
+			for i := range n {
+				for j := range i {
+					if s := a.S[i][j]; s > 0 {
+						if err := put(i, j, exchange.Sigma*s); err != nil {
+							return err
+						}
+					}
+				}
+			}
+			for i := range n {
+				if a.ToAmbient != nil && a.ToAmbient[i] > 0 {
+					if err := put(n, i, exchange.Sigma*a.ToAmbient[i]); err != nil {
+						return err
+					}
+				}
+			}
+			return nil
+		})
+	return []string{"viewfactors_smoothed.mtx", "conductances.mtx"}, err
+}
+
+// writeNodes writes nodes.csv: the index of each node in the .mtx files
+// (1-based), its name and area; the ambient is index N+1.
+func writeNodes(dir string, nodes []raytrace.Node) error {
+	return writeCSV(filepath.Join(dir, "nodes.csv"), func(emit func(...string)) error {
+		emit("index", "node", "area_m2")
+		for i, n := range nodes {
+			emit(fmt.Sprint(i+1), n.Name, num(n.Area))
+		}
+		emit(fmt.Sprint(len(nodes)+1), "ambient", "")
+		return nil
+	})
+}
