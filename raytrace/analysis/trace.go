@@ -100,7 +100,7 @@ func (in *Input) Trace(ctx context.Context, run Run) (*Traced, error) {
 	case err == nil:
 		out.Complete = true
 	case errors.Is(err, context.DeadlineExceeded) && ctx.Err() == nil:
-		out.Notes = append(out.Notes, fmt.Sprintf("the time limit of %v stopped the trace early: the intervals are wider than planned (summary.json: complete = false); continue with --resume", run.TimeLimit))
+		out.Notes = append(out.Notes, fmt.Sprintf("the time limit of %v stopped the trace early", run.TimeLimit))
 	case errors.Is(err, context.Canceled):
 		return nil, fmt.Errorf("%w: checkpoint written to %s; continue with the same command and --resume", ErrInterrupted, path)
 	default:

@@ -27,8 +27,8 @@ func (o *Outputs) Warnings() []string {
 	if t := o.Traced; t != nil {
 		w = append(w, t.Result.Warnings(analysis.SurfaceNames(o.Input.Mesh))...)
 		w = append(w, t.Notes...)
-		if !t.Complete && len(t.Notes) == 0 {
-			w = append(w, "INCOMPLETE: not every planned ray was traced (an interrupted run?), so the intervals are wider than planned (summary.json: complete = false); continue it with --resume")
+		if !t.Complete {
+			w = append(w, "INCOMPLETE: not every planned ray was traced, so the intervals are wider than planned (summary.json: complete = false); continue the trace with --resume")
 		}
 		if m := t.Result.MissedHalfWidth(); len(m) > 0 {
 			res := t.Result
