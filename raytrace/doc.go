@@ -7,7 +7,17 @@
 // By default each surface is one radiation node; a two-sided surface is two,
 // NAME (its front) and NAME.back; with FacetNodes every facet is its own
 // node (NAME#k, NAME#k.back). Rays that leave the model count toward the
-// ambient; a model in which no ray escapes has no ambient column.
+// ambient, whose column every result has (zero when no ray escaped), so
+// that the layout of the outputs never depends on the random draw. Names
+// that would be ambiguous ("ambient", a surface X.back beside a two-sided
+// X) are refused.
+//
+// # Settings
+//
+// Settings are everything that fixes the tallies (how the mesh was read,
+// the nodes, the rays); Options add how one process runs (threads, its
+// shard, checkpoints, progress). Settings.Hash and Settings.Diff make a run
+// reproducible and a mismatch explainable field by field.
 //
 // # The estimator
 //
