@@ -26,6 +26,9 @@ type Options struct {
 	Settings
 	// Threads is the number of workers. Default GOMAXPROCS.
 	Threads int
+	// NodeOf, if set, names the node of each facet ("" keeps the facet in
+	// its surface's node): the content of Settings.NodeMap.
+	NodeOf []string
 	// Shards > 1 makes this run trace only its share of the work units:
 	// those with shardOf(unit) == Shard. Shards add up exactly (Merge).
 	// A sharded run does one round; later HalfWidth rounds are planned from

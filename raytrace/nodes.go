@@ -33,11 +33,22 @@ type nodeMap struct {
 // buildNodes makes the nodes of m. twoSided names the two-sided surfaces.
 // Facets of zero area cannot emit (and no ray can hit them), so they belong
 // to no node's emitters; in facet mode they are no node at all.
-func buildNodes(m *mesh.Mesh, twoSided map[string]bool, facetNodes bool, area []float64) (*nodeMap, error) {
+func buildNodes(m *mesh.Mesh, twoSided map[string]bool, facetNodes bool, area []float64, split map[string]string, nodeOf []string) (*nodeMap, error) {
 	for name := range twoSided {
 		if m.SurfaceIndex(name) < 0 {
 			return nil, fmt.Errorf("two-sided surface %q is not in the model", name)
 		}
+	}
+	for name := range split {
+		if m.SurfaceIndex(name) < 0 {
+			return nil, fmt.Errorf("surface %q to split is not in the model", name)
+		}
+	}
+	if nodeOf != nil && len(nodeOf) != len(m.Facets) {
+		return nil, fmt.Errorf("the facet → node map has %d entries for %d facets", len(nodeOf), len(m.Facets))
+	}
+	if facetNodes && (len(split) > 0 || nodeOf != nil) {
+		return nil, fmt.Errorf("facet nodes and a split or node map exclude each other: every facet is already a node")
 	}
 	nm := &nodeMap{front: make([]NodeID, len(m.Facets)), back: make([]NodeID, len(m.Facets))}
 	add := func(name string, s int, back bool, facets []int32) NodeID {
@@ -58,6 +69,14 @@ func buildNodes(m *mesh.Mesh, twoSided map[string]bool, facetNodes bool, area []
 		}
 		if len(emitting) == 0 {
 			return nil, fmt.Errorf("surface %q has zero area (hemiray inspect lists its degenerate facets)", surf.Name)
+		}
+		names, err := groups(m, s, split[surf.Name], nodeOf)
+		if err != nil {
+			return nil, err
+		}
+		if names != nil {
+			addGroups(nm, &m.Surfaces[s], s, two, names, area, add)
+			continue
 		}
 		if !facetNodes {
 			fi := add(surf.Name, s, false, emitting)
@@ -84,6 +103,42 @@ func buildNodes(m *mesh.Mesh, twoSided map[string]bool, facetNodes bool, area []
 		}
 	}
 	return nm, checkNames(nm.nodes, m)
+}
+
+// addGroups makes one node (and its back) per distinct name, in the order
+// of first appearance, from the facets of surf named so.
+func addGroups(nm *nodeMap, surf *mesh.Surface, s int, two bool, names []string, area []float64, add func(string, int, bool, []int32) NodeID) {
+	index := map[string]int{}
+	var order []string
+	var members [][]int32
+	for k, f := range surf.Facets {
+		g, ok := index[names[k]]
+		if !ok {
+			g = len(order)
+			index[names[k]] = g
+			order = append(order, names[k])
+			members = append(members, nil)
+		}
+		members[g] = append(members[g], f)
+	}
+	for g, name := range order {
+		var emitting []int32
+		for _, f := range members[g] {
+			if area[f] > 0 {
+				emitting = append(emitting, f)
+			}
+		}
+		fi, bi := NodeID(-1), NodeID(-1)
+		if len(emitting) > 0 {
+			fi = add(name, s, false, emitting)
+			if two {
+				bi = add(name+".back", s, true, emitting)
+			}
+		}
+		for _, f := range members[g] {
+			nm.front[f], nm.back[f] = fi, bi
+		}
+	}
 }
 
 // checkNames refuses node names that would be ambiguous in the outputs:

@@ -219,7 +219,7 @@ func nodeMapFor(m *mesh.Mesh, opts Options, area []float64) (*nodeMap, error) {
 	for _, s := range opts.TwoSided {
 		two[s] = true
 	}
-	nm, err := buildNodes(m, two, opts.FacetNodes, area)
+	nm, err := buildNodes(m, two, opts.FacetNodes, area, opts.Split, opts.NodeOf)
 	if err != nil {
 		return nil, err
 	}

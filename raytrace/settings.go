@@ -40,6 +40,12 @@ type Settings struct {
 	TwoSided []string `json:"two_sided"`
 	// FacetNodes makes every facet a node.
 	FacetNodes bool `json:"facets"`
+	// Split splits surfaces into several nodes: "grid NxM" or "patches"
+	// per surface name (see groups.go). NodeMap names the facet → node map
+	// file whose content Options.NodeOf holds (its bytes are hashed with
+	// the mesh files).
+	Split   map[string]string `json:"split,omitempty"`
+	NodeMap string            `json:"node_map,omitempty"`
 	// Rays is the number of rays per emitting node (the first round when
 	// HalfWidth is set). Default 100,000.
 	Rays int64 `json:"rays"`

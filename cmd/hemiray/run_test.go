@@ -305,3 +305,37 @@ func TestRunErrorsNameSurfaces(t *testing.T) {
 		t.Errorf("exit %d, %q", code, e)
 	}
 }
+
+// A surface split into a grid of nodes shares its heat flow by area, and
+// facets.csv maps every facet back to its node.
+func TestRunSplitSurface(t *testing.T) {
+	dir := t.TempDir()
+	mesh, _ := filepath.Abs("../../testdata/cabinet_multi.stl")
+	cs := filepath.Join(dir, "c.toml")
+	os.WriteFile(cs, []byte("[model]\nfiles = [\""+mesh+"\"]\n[ambient]\ntemperature = 290\n[defaults]\nemissivity = 0.8\ntemperature = 300\n[surfaces.floor]\nsplit = \"grid 3x1\"\nheat_flow = 12\n"), 0o644)
+	out := filepath.Join(dir, "o")
+	if code, _, e := runCLI("run", cs, "--rays", "4000", "--quiet", "--no-pictures", "-o", out); code != 0 {
+		t.Fatal(e)
+	}
+	s := readSurfaces(t, filepath.Join(out, "surfaces.csv"))
+	total, area := 0.0, 0.0
+	for name, row := range s {
+		if strings.HasPrefix(name, "floor[") {
+			total += val(t, row["Q_set_W"])
+			area += val(t, row["area_m2"])
+		}
+	}
+	for name, row := range s {
+		if strings.HasPrefix(name, "floor[") {
+			if q, want := val(t, row["Q_set_W"]), 12*val(t, row["area_m2"])/area; math.Abs(q-want) > 1e-9 {
+				t.Errorf("%s carries %v W, its share of the area gives %v", name, q, want)
+			}
+		}
+	}
+	if math.Abs(total-12) > 1e-9 || len(s) < 3 {
+		t.Errorf("floor nodes carry %v W in all (want 12), nodes %v", total, len(s))
+	}
+	if f := string(mustRead(t, filepath.Join(out, "facets.csv"))); !strings.HasPrefix(f, "facet,surface,node,back_node\n0,") || !strings.Contains(f, "floor[") {
+		t.Errorf("facets.csv starts %q", f[:min(len(f), 80)])
+	}
+}

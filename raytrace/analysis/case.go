@@ -40,6 +40,10 @@ type ModelSpec struct {
 	// Rename renames surfaces after loading; old names renamed alike
 	// become one surface (one radiation node).
 	Rename map[string]string `toml:"rename"`
+	// NodeMap is a CSV file "facet,node" naming the node of single facets
+	// (0-based facet index in load order, as facets.csv and model.vtp
+	// number them); facets it leaves out stay in their surface's node.
+	NodeMap string `toml:"node_map"`
 }
 
 // RaySpec is the case's [rays] table; zero values take the defaults of
@@ -75,6 +79,8 @@ type SurfaceSpec struct {
 	HeatFlux    *float64 `toml:"heat_flux"`
 	HeatFlow    *float64 `toml:"heat_flow"`
 	Adiabatic   *bool    `toml:"adiabatic"`
+	// Split makes several nodes of the surface: "grid NxM" or "patches".
+	Split string `toml:"split"`
 }
 
 // DefaultReplicates is the number of replicates for heat-flow intervals
@@ -156,6 +162,13 @@ func checkSpec(table []string, sp SurfaceSpec) error {
 			return keyErr(key(v.name), "%s %v is not a finite number of at most %g in size", v.name, *v.x, maxHeat)
 		}
 	}
+	if sp.Split != "" && sp.Split != "patches" {
+		var nx, ny int
+		var rest string
+		if n, _ := fmt.Sscanf(sp.Split, "grid %dx%d%s", &nx, &ny, &rest); n != 2 || nx < 1 || ny < 1 || nx*ny > 1<<20 {
+			return keyErr(key("split"), "split is %q; use \"patches\" or \"grid NxM\" (N, M ≥ 1)", sp.Split)
+		}
+	}
 	if n := sp.conditions(); n > 1 {
 		return keyErr(table, "[%s] sets %d boundary conditions; give one of temperature, heat_flux, heat_flow or adiabatic", strings.Join(table, "."), n)
 	}
@@ -200,6 +213,9 @@ func (c *Case) Spec(name string) SurfaceSpec {
 			*f.dst = *f.src
 		}
 	}
+	if own.Split != "" {
+		out.Split = own.Split
+	}
 	for _, f := range []struct{ dst, src **bool }{
 		{&out.TwoSided, &own.TwoSided}, {&out.Flip, &own.Flip}, {&out.Adiabatic, &own.Adiabatic},
 	} {
@@ -217,7 +233,7 @@ func (c *Case) Settings(surfaces []string) raytrace.Settings {
 	s := raytrace.Settings{
 		Units: c.Model.Units, GroupByMaterial: c.Model.GroupBy == "material", Names: c.Model.Names, Rename: c.Model.Rename,
 		FacetNodes: r.Facets, Rays: r.PerNode, HalfWidth: r.HalfWidth, MaxRays: r.MaxPerNode,
-		Seed: r.Seed, Confidence: r.Confidence, Replicates: r.Replicates,
+		Seed: r.Seed, Confidence: r.Confidence, Replicates: r.Replicates, NodeMap: c.Model.NodeMap,
 	}
 	if s.Seed == 0 {
 		s.Seed = 1
@@ -229,6 +245,12 @@ func (c *Case) Settings(surfaces []string) raytrace.Settings {
 		}
 		if sp.IsFlipped() {
 			s.Flipped = append(s.Flipped, name)
+		}
+		if sp.Split != "" {
+			if s.Split == nil {
+				s.Split = map[string]string{}
+			}
+			s.Split[name] = sp.Split
 		}
 	}
 	return s

@@ -97,3 +97,36 @@ func TestNamesAndRename(t *testing.T) {
 		t.Errorf("unknown rename: %v", err)
 	}
 }
+
+// A facet → node map file makes the nodes it names; its content is part of
+// the input hash, so tallies of another map are refused; bad lines name
+// the file and line.
+func TestNodeMapFile(t *testing.T) {
+	dir := t.TempDir()
+	v := func(x, y, z float64) geometry.Vec3 { return geometry.Vec3{X: x, Y: y, Z: z} }
+	f, _ := os.Create(filepath.Join(dir, "p.obj"))
+	mesh.WriteOBJ(f, mesh.Rectangle("plate", v(0, 0, 0), v(1, 0, 0), v(0, 1, 0), 2, 1))
+	f.Close()
+	os.WriteFile(filepath.Join(dir, "map.csv"), []byte("facet,node\n0,left\n1,left\n"), 0o644)
+	c := &Case{Dir: dir, Model: ModelSpec{Files: []string{"p.obj"}, NodeMap: "map.csv"}}
+	in, err := Open(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	nodes, err := in.Nodes()
+	if err != nil || len(nodes) != 2 || nodes[0].Name != "left" || nodes[1].Name != "plate" {
+		t.Fatalf("nodes %v, %+v", err, nodes)
+	}
+	r1, _ := in.Record(0, 1, len(nodes))
+	os.WriteFile(filepath.Join(dir, "map.csv"), []byte("facet,node\n0,left\n"), 0o644)
+	in2, _ := Open(c)
+	r2, _ := in2.Record(0, 1, len(nodes))
+	if d := r2.Differences(r1); len(d) == 0 {
+		t.Error("a changed node map went unnoticed")
+	}
+	os.WriteFile(filepath.Join(dir, "map.csv"), []byte("facet,node\n7,left\n"), 0o644)
+	var ke *KeyError
+	if _, err := Open(c); !errors.As(err, &ke) || !strings.Contains(err.Error(), "map.csv:2") {
+		t.Errorf("bad facet: %v", err)
+	}
+}

@@ -2,11 +2,15 @@ package analysis
 
 import (
 	"crypto/sha256"
+	"encoding/csv"
 	"encoding/hex"
+	"errors"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 
 	"github.com/hemiray/hemiray/mesh"
@@ -20,6 +24,10 @@ type Input struct {
 	Mesh     *mesh.Mesh
 	Files    []string
 	Settings raytrace.Settings
+	// NodeOf is the facet → node map read from the case's node_map file
+	// (nil without one); NodeMapFile is that file, hashed with the meshes.
+	NodeOf      []string
+	NodeMapFile string
 }
 
 // Open validates c, loads its meshes, checks its surface tables against
@@ -76,7 +84,18 @@ func Open(c *Case) (*Input, error) {
 			m.FlipSurface(i)
 		}
 	}
-	return &Input{Case: c, Mesh: m, Files: files, Settings: c.Settings(names)}, nil
+	in := &Input{Case: c, Mesh: m, Files: files, Settings: c.Settings(names)}
+	if nm := c.Model.NodeMap; nm != "" {
+		in.NodeMapFile = nm
+		if !filepath.IsAbs(nm) {
+			in.NodeMapFile = filepath.Join(c.Dir, nm)
+		}
+		var err error
+		if in.NodeOf, err = readNodeMap(in.NodeMapFile, len(m.Facets)); err != nil {
+			return nil, keyErr([]string{"model", "node_map"}, "%v", err)
+		}
+	}
+	return in, nil
 }
 
 // OpenMeshes loads mesh files given without a case; s.Units and
@@ -105,8 +124,8 @@ func (c *Case) checkSurfaces(m *mesh.Mesh) error {
 			if !c.Spec(base).IsTwoSided() {
 				return keyErr(table, "[surfaces.%q] sets the back of %s, which is not two_sided", name, base)
 			}
-			if sp.TwoSided != nil || sp.Flip != nil {
-				return keyErr(table, "two_sided and flip belong to [surfaces.%q], not to its back", base)
+			if sp.TwoSided != nil || sp.Flip != nil || sp.Split != "" {
+				return keyErr(table, "two_sided, flip and split belong to [surfaces.%q], not to its back", base)
 			}
 			if sp.conditions() > 0 {
 				return keyErr(table, "the two sides of %s share one temperature: give its condition in [surfaces.%q]", base, base)
@@ -129,7 +148,9 @@ func SurfaceNames(m *mesh.Mesh) []string {
 
 // Options returns the estimator options of the input (threads and the
 // other runtime knobs at their defaults).
-func (in *Input) Options() raytrace.Options { return raytrace.Options{Settings: in.Settings} }
+func (in *Input) Options() raytrace.Options {
+	return raytrace.Options{Settings: in.Settings, NodeOf: in.NodeOf}
+}
 
 // Nodes returns the radiation nodes of the input.
 func (in *Input) Nodes() ([]raytrace.Node, error) { return raytrace.Nodes(in.Mesh, in.Options()) }
@@ -137,7 +158,11 @@ func (in *Input) Nodes() ([]raytrace.Node, error) { return raytrace.Nodes(in.Mes
 // Digests returns the SHA-256 of every input file.
 func (in *Input) Digests() ([]raytrace.FileDigest, error) {
 	var out []raytrace.FileDigest
-	for _, f := range in.Files {
+	files := in.Files
+	if in.NodeMapFile != "" {
+		files = append(slices.Clone(files), in.NodeMapFile)
+	}
+	for _, f := range files {
 		b, err := os.ReadFile(f)
 		if err != nil {
 			return nil, err
@@ -214,4 +239,40 @@ func (in *Input) Notes() []string {
 		}
 	}
 	return out
+}
+
+// readNodeMap reads a facet → node map: CSV lines "facet,node" (a header
+// line "facet,node" allowed), facet the 0-based index in load order.
+func readNodeMap(path string, facets int) ([]string, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	r := csv.NewReader(f)
+	r.FieldsPerRecord = 2
+	out := make([]string, facets)
+	for line := 1; ; line++ {
+		rec, err := r.Read()
+		if errors.Is(err, io.EOF) {
+			return out, nil
+		}
+		if err != nil {
+			return nil, fmt.Errorf("%s: %w", path, err)
+		}
+		if line == 1 && rec[0] == "facet" {
+			continue
+		}
+		k, err := strconv.Atoi(strings.TrimSpace(rec[0]))
+		name := strings.TrimSpace(rec[1])
+		switch {
+		case err != nil || k < 0 || k >= facets:
+			return nil, fmt.Errorf("%s:%d: facet %q is not an index in [0, %d)", path, line, rec[0], facets)
+		case name == "":
+			return nil, fmt.Errorf("%s:%d: no node name", path, line)
+		case out[k] != "":
+			return nil, fmt.Errorf("%s:%d: facet %d is mapped twice", path, line, k)
+		}
+		out[k] = name
+	}
 }

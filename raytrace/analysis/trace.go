@@ -47,7 +47,7 @@ var ErrInterrupted = errors.New("interrupted")
 // Trace runs the estimator on in, writing the checkpoint Dir/tallies.bin
 // every CheckpointEvery, at the end, and on cancellation.
 func (in *Input) Trace(ctx context.Context, run Run) (*Traced, error) {
-	opts := raytrace.Options{Settings: in.Settings, Threads: run.Threads, Shard: run.Shard, Shards: run.Shards,
+	opts := raytrace.Options{Settings: in.Settings, NodeOf: in.NodeOf, Threads: run.Threads, Shard: run.Shard, Shards: run.Shards,
 		Targets: run.Targets, CheckpointEvery: run.CheckpointEvery, MemoryLimit: run.MemoryLimit, Progress: run.Progress}
 	nodes, err := raytrace.Nodes(in.Mesh, opts)
 	if err != nil {

@@ -30,5 +30,5 @@ func ExampleWrite() {
 	written, err := report.Write(dir, report.Outputs{Input: in, Analysis: a})
 	fmt.Println(written, err)
 	// Output:
-	// [viewfactors_smoothed.csv viewfactors_smoothed_pairs.csv surfaces.csv conductances.csv summary.json] <nil>
+	// [viewfactors_smoothed.csv viewfactors_smoothed_pairs.csv surfaces.csv viewfactors_smoothed.mtx conductances.mtx conductances.csv nodes.csv summary.json] <nil>
 }

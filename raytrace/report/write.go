@@ -2,11 +2,14 @@ package report
 
 import (
 	"fmt"
+	"io"
 	"path/filepath"
 	"strings"
 
+	"github.com/hemiray/hemiray/mesh"
 	"github.com/hemiray/hemiray/raytrace"
 	"github.com/hemiray/hemiray/raytrace/analysis"
+	"github.com/hemiray/hemiray/raytrace/internal/atomicfile"
 )
 
 // Outputs are the results of a run to write.
@@ -94,6 +97,12 @@ func Write(dir string, o Outputs) ([]string, error) {
 		return nil, err
 	}
 	written = append(written, "nodes.csv")
+	if len(o.Input.Settings.Split) > 0 || o.Input.NodeOf != nil {
+		if err := writeFacets(dir, o.Input.Mesh, nodes); err != nil {
+			return nil, err
+		}
+		written = append(written, "facets.csv")
+	}
 	sum, err := newSummary(o.Input, o.Traced, o.Analysis, o.Warnings())
 	if err != nil {
 		return nil, err
@@ -124,4 +133,31 @@ func (o *Outputs) nodes() []raytrace.Node {
 		return o.Traced.Result.Nodes
 	}
 	return o.Analysis.Nodes
+}
+
+// writeFacets writes facets.csv: for each facet (0-based, in load order,
+// as model.vtp numbers its cells) its surface and the nodes of its front
+// and back, so results of a split or mapped model go back onto the mesh.
+func writeFacets(dir string, m *mesh.Mesh, nodes []raytrace.Node) error {
+	front, back := facetNodes(m, nodes)
+	return atomicfile.Write(filepath.Join(dir, "facets.csv"), func(w io.Writer) error {
+		lw := newLineWriter(w)
+		lw.buf = append(lw.buf, "facet,surface,node,back_node\n"...)
+		name := func(i int32) string {
+			if i < 0 {
+				return ""
+			}
+			return nodes[i].Name
+		}
+		for f := range m.Facets {
+			lw.int(int64(f))
+			lw.name(m.Surfaces[m.SurfaceOf[f]].Name)
+			lw.name(name(front[f]))
+			lw.name(name(back[f]))
+			if err := lw.end(); err != nil {
+				return err
+			}
+		}
+		return lw.flush()
+	})
 }
