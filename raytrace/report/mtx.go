@@ -137,14 +137,19 @@ func writeAnalysisMTX(dir string, a *analysis.Result) ([]string, error) {
 }
 
 // writeNodes writes nodes.csv: the index of each node in the .mtx files
-// (1-based), its name and area; the ambient is index N+1.
-func writeNodes(dir string, nodes []raytrace.Node) error {
+// (1-based), its name and area, and the per-node figures of the trace
+// (empty when the view factors were given); the ambient is index N+1.
+func writeNodes(dir string, nodes []NodeSummary, traced bool) error {
 	return writeCSV(filepath.Join(dir, "nodes.csv"), func(emit func(...string)) error {
-		emit("index", "node", "area_m2")
+		emit("index", "node", "area_m2", "rays", "row_sum", "to_ambient", "backface_hits", "max_halfwidth")
 		for i, n := range nodes {
-			emit(fmt.Sprint(i+1), n.Name, num(n.Area))
+			if !traced {
+				emit(fmt.Sprint(i+1), n.Name, num(n.AreaM2), "", "", "", "", "")
+				continue
+			}
+			emit(fmt.Sprint(i+1), n.Name, num(n.AreaM2), fmt.Sprint(n.Rays), num(n.RowSum), num(n.ToAmbient), fmt.Sprint(n.BackFaceHits), num(n.MaxHalfWidth))
 		}
-		emit(fmt.Sprint(len(nodes)+1), "ambient", "")
+		emit(fmt.Sprint(len(nodes)+1), "ambient", "", "", "", "", "", "")
 		return nil
 	})
 }

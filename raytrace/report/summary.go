@@ -54,7 +54,7 @@ type Summary struct {
 	TraceSeconds    float64                 `json:"trace_seconds"`
 	RaysPerSecond   float64                 `json:"rays_per_second"`
 	Threads         int                     `json:"threads"`
-	Nodes           []NodeSummary           `json:"nodes"`
+	Nodes           []NodeSummary           `json:"nodes,omitempty"` // up to SquareLimit nodes; nodes.csv has all
 	BackFaces       []raytrace.BackFaceNote `json:"backface_hits"`
 	Warnings        []string                `json:"warnings"`
 	Cautions        []string                `json:"cautions"`

@@ -93,19 +93,22 @@ func Write(dir string, o Outputs) ([]string, error) {
 			written = append(written, "conductances.csv")
 		}
 	}
-	if err := writeNodes(dir, nodes); err != nil {
+	sum, err := newSummary(o.Input, o.Traced, o.Analysis, o.Warnings())
+	if err != nil {
+		return nil, err
+	}
+	if err := writeNodes(dir, sum.Nodes, o.Traced != nil); err != nil {
 		return nil, err
 	}
 	written = append(written, "nodes.csv")
+	if len(sum.Nodes) > SquareLimit {
+		sum.Nodes = nil // summary.json keeps run-level figures; nodes.csv has every node's
+	}
 	if len(o.Input.Settings.Split) > 0 || o.Input.NodeOf != nil {
 		if err := writeFacets(dir, o.Input.Mesh, nodes); err != nil {
 			return nil, err
 		}
 		written = append(written, "facets.csv")
-	}
-	sum, err := newSummary(o.Input, o.Traced, o.Analysis, o.Warnings())
-	if err != nil {
-		return nil, err
 	}
 	if err := writeJSON(filepath.Join(dir, "summary.json"), sum); err != nil {
 		return nil, err
