@@ -59,6 +59,22 @@ type Progress struct {
 	Rays    int64 // traced so far
 	Planned int64 // planned so far (grows with HalfWidth rounds)
 	Elapsed time.Duration
+	// With a HalfWidth target: the widest interval half-width of any row
+	// so far, and the time to bring it to the target if half-widths keep
+	// shrinking as 1/√rays (the binomial law), 0 when reached.
+	WorstHalfWidth float64
+	ToTarget       time.Duration
+}
+
+// worst returns the widest row half-width over the nodes with rays.
+func (r *Result) worst() float64 {
+	w := 0.0
+	for i := range r.Nodes {
+		if r.Rays[i] > 0 {
+			w = max(w, r.RowHalfWidth(i))
+		}
+	}
+	return w
 }
 
 func (o *Options) defaults() error {
@@ -330,9 +346,18 @@ func (e *engine) run(ctx context.Context, units []unit, out *Result) error {
 	checkpoint := time.NewTicker(e.opts.CheckpointEvery)
 	defer checkpoint.Stop()
 	report := func() {
-		if e.opts.Progress != nil {
-			e.opts.Progress(Progress{Rays: e.traced.Load(), Planned: base + planned, Elapsed: time.Since(e.start)})
+		if e.opts.Progress == nil {
+			return
 		}
+		p := Progress{Rays: e.traced.Load(), Planned: base + planned, Elapsed: time.Since(e.start)}
+		if h := e.opts.HalfWidth; h > 0 && p.Rays > 0 {
+			// The collector owns out, so reading it here is safe.
+			p.WorstHalfWidth = out.worst()
+			if ratio := p.WorstHalfWidth / h; ratio > 1 {
+				p.ToTarget = time.Duration(float64(p.Elapsed) * (ratio*ratio - 1))
+			}
+		}
+		e.opts.Progress(p)
 	}
 	var cerr error
 	for {

@@ -313,3 +313,17 @@ func TestBackFaceWarningsSummarized(t *testing.T) {
 		t.Errorf("warnings: %q", w)
 	}
 }
+
+// With a half-width target the progress reports the widest row half-width
+// (the one the rounds chase) and a time to the target from the 1/√N law.
+func TestProgressReportsWorstHalfWidth(t *testing.T) {
+	var last Progress
+	o := Options{Settings: Settings{Rays: 2000, HalfWidth: 0.001, MaxRays: 8000, Seed: 1}, Progress: func(p Progress) { last = p }}
+	r, err := Estimate(context.Background(), ReferenceCases()[0].Mesh, o)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w := r.worst(); last.WorstHalfWidth != w || w <= 0.001 || last.ToTarget <= 0 {
+		t.Errorf("last progress %+v; the result's widest half-width %v", last, w)
+	}
+}

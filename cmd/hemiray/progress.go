@@ -31,6 +31,9 @@ func progressReporter(stderr io.Writer, quiet bool) (func(raytrace.Progress), fu
 			progressbar.OptionClearOnFinish(),
 		)
 		return func(p raytrace.Progress) {
+				if p.WorstHalfWidth > 0 {
+					bar.Describe(fmt.Sprintf("tracing (worst half-width %.3g, about %v to the target)", p.WorstHalfWidth, p.ToTarget.Round(time.Second)))
+				}
 				bar.ChangeMax64(p.Planned)
 				bar.Set64(p.Rays)
 			}, func() {
@@ -45,7 +48,11 @@ func progressReporter(stderr io.Writer, quiet bool) (func(raytrace.Progress), fu
 		last = p.Elapsed
 		rate := float64(p.Rays) / p.Elapsed.Seconds()
 		left := time.Duration(float64(p.Planned-p.Rays) / rate * float64(time.Second)).Round(time.Second)
-		fmt.Fprintf(stderr, "hemiray: %d of %d rays (%.0f%%), %.3g Mrays/s, about %v left\n",
-			p.Rays, p.Planned, 100*float64(p.Rays)/float64(max(p.Planned, 1)), rate/1e6, left)
+		target := ""
+		if p.WorstHalfWidth > 0 {
+			target = fmt.Sprintf("; worst half-width %.3g, about %v to the target", p.WorstHalfWidth, p.ToTarget.Round(time.Second))
+		}
+		fmt.Fprintf(stderr, "hemiray: %d of %d rays (%.0f%%), %.3g Mrays/s, about %v left in this round%s\n",
+			p.Rays, p.Planned, 100*float64(p.Rays)/float64(max(p.Planned, 1)), rate/1e6, left, target)
 	}, func() {}
 }
