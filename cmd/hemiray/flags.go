@@ -3,7 +3,6 @@ package main
 import (
 	"flag"
 	"fmt"
-	"os"
 	"path/filepath"
 	"runtime"
 	"strings"
@@ -11,6 +10,7 @@ import (
 
 	"github.com/hemiray/hemiray/raytrace"
 	"github.com/hemiray/hemiray/raytrace/analysis"
+	"github.com/hemiray/hemiray/raytrace/report"
 )
 
 // traceFlags are the flags trace, run, solve and render share.
@@ -34,6 +34,7 @@ type traceFlags struct {
 	shard           string
 	plan            string
 	noPictures      bool
+	csv             string
 }
 
 // newTraceFlags returns the flags with their defaults, registered or not.
@@ -76,6 +77,7 @@ func (tf *traceFlags) register(fs *flag.FlagSet, groups int) {
 		fs.StringVar(&tf.out, "o", "", "output folder (default: the case's output.dir, else hemiray-out)")
 		fs.BoolVar(&tf.quiet, "quiet", false, "no progress output")
 		fs.BoolVar(&tf.noPictures, "no-pictures", false, "do not write the PNG pictures and model.vtp")
+		fs.StringVar(&tf.csv, "csv", "", "all, or compact: no per-pair CSVs and no tallies.csv, the .mtx files carry the matrices (default: the case's output.csv, else all)")
 	}
 }
 
@@ -85,6 +87,13 @@ type job struct {
 	run      analysis.Run
 	pictures bool
 	quiet    bool
+	compact  bool // no per-pair CSVs (--csv compact)
+}
+
+// outputs are the results of j to write: t nil when the view factors were
+// given, a nil for a trace alone.
+func (j *job) outputs(t *analysis.Traced, a *analysis.Result) report.Outputs {
+	return report.Outputs{Input: j.in, Traced: t, Analysis: a, Pictures: j.pictures && a != nil, Compact: j.compact}
 }
 
 // loadInput reads the positional arguments (one .toml case or mesh files)
@@ -140,8 +149,15 @@ func loadInput(fs *flag.FlagSet, tf *traceFlags, args []string) (*job, error) {
 		return nil, usagef("%v (check --rays, --max-rays, --halfwidth, --confidence)", err)
 	}
 	j.run.Threads, j.run.Resume, j.run.CheckpointEvery, j.run.TimeLimit = tf.threads, tf.resume, tf.checkpointEvery, tf.timeLimit
-	j.run.MemoryLimit = availableMemory()
 	j.pictures, j.quiet = !tf.noPictures, tf.quiet
+	csv := tf.csv
+	if csv == "" && j.in.Case != nil {
+		csv = j.in.Case.Output.CSV
+	}
+	if csv != "" && csv != "all" && csv != "compact" {
+		return nil, usagef("--csv %q: give all or compact", csv)
+	}
+	j.compact = csv == "compact"
 	if tf.shard != "" {
 		if j.run.Shard, j.run.Shards, err = parseShard(tf.shard); err != nil {
 			return nil, err
@@ -167,21 +183,6 @@ func parseShard(s string) (i, n int, err error) {
 		return 0, 0, usagef("--shard %q: give I/N with 0 ≤ I < N", s)
 	}
 	return i, n, nil
-}
-
-// availableMemory reads MemAvailable from /proc/meminfo; 0 if unknown.
-func availableMemory() int64 {
-	b, err := os.ReadFile("/proc/meminfo")
-	if err != nil {
-		return 0
-	}
-	for _, l := range strings.Split(string(b), "\n") {
-		var kb int64
-		if n, _ := fmt.Sscanf(l, "MemAvailable: %d kB", &kb); n == 1 {
-			return kb * 1024
-		}
-	}
-	return 0
 }
 
 // lock takes the job's output folder for this process.

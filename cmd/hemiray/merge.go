@@ -9,7 +9,6 @@ import (
 	"path/filepath"
 
 	"github.com/hemiray/hemiray/raytrace/analysis"
-	"github.com/hemiray/hemiray/raytrace/report"
 )
 
 func mergeCommand() *command {
@@ -99,5 +98,5 @@ func merge(dir string, names []string, stdout, stderr io.Writer) error {
 	if j.in.Case != nil && j.in.Preflight() == nil {
 		return finishRun(j, t, stdout, stderr)
 	}
-	return finish(j, report.Outputs{Input: j.in, Traced: t}, stdout, stderr)
+	return finish(j, j.outputs(t, nil), stdout, stderr)
 }

@@ -11,7 +11,6 @@ import (
 	"strings"
 
 	"github.com/hemiray/hemiray/raytrace/analysis"
-	"github.com/hemiray/hemiray/raytrace/report"
 )
 
 func runCommand() *command {
@@ -87,7 +86,7 @@ func finishRun(j *job, t *analysis.Traced, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	return finish(j, report.Outputs{Input: j.in, Traced: t, Analysis: a, Pictures: j.pictures}, stdout, stderr)
+	return finish(j, j.outputs(t, a), stdout, stderr)
 }
 
 func solveCommand() *command {
@@ -166,7 +165,7 @@ func solveGiven(j *job, path string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	return finish(j, report.Outputs{Input: j.in, Analysis: a, Pictures: j.pictures}, stdout, stderr)
+	return finish(j, j.outputs(nil, a), stdout, stderr)
 }
 
 // openRegular opens a regular file for reading; a FIFO or a device would

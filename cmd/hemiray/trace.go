@@ -58,7 +58,7 @@ on the command line override the case file.`,
 		if j.run.Shards > 1 {
 			return finishShard(j, t, stdout)
 		}
-		return finish(j, report.Outputs{Input: j.in, Traced: t, Pictures: j.pictures}, stdout, stderr)
+		return finish(j, j.outputs(t, nil), stdout, stderr)
 	}
 	return c
 }

@@ -93,3 +93,21 @@ func TestAmbientColumnAlwaysPresent(t *testing.T) {
 		}
 	}
 }
+
+// --csv compact leaves out the per-pair CSVs and tallies.csv; the Matrix
+// Market file carries the same matrix.
+func TestCompactCSV(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "o")
+	if code, _, e := runCLI("trace", "../../testdata/cabinet_multi.stl", "--rays", "2000", "--csv", "compact", "--quiet", "-o", out); code != 0 {
+		t.Fatal(e)
+	}
+	for f, want := range map[string]bool{"viewfactors_pairs.csv": false, "tallies.csv": false, "viewfactors.mtx": true, "viewfactors.csv": true, "nodes.csv": true} {
+		if _, err := os.Stat(filepath.Join(out, f)); (err == nil) != want {
+			t.Errorf("%s written: %v, want %v", f, err == nil, want)
+		}
+	}
+	if code, _, e := runCLI("trace", "../../testdata/cabinet_multi.stl", "--csv", "some", "-o", out); code != 2 || !strings.Contains(e, "--csv") {
+		t.Errorf("--csv some: exit %d, %q", code, e)
+	}
+}

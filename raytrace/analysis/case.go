@@ -67,6 +67,9 @@ type AmbientSpec struct {
 type OutputSpec struct {
 	Dir string `toml:"dir"`
 	Up  string `toml:"up"` // the model's up axis for pictures: "z" (default) or "y"
+	// CSV is "all" (the default) or "compact": no per-pair CSV files and no
+	// tallies.csv (the .mtx files and tallies.bin carry the same numbers).
+	CSV string `toml:"csv"`
 }
 
 // SurfaceSpec is the settings of one node (or the defaults). Unset values
@@ -131,6 +134,9 @@ func (c *Case) Validate() error {
 	}
 	if t := c.Ambient.Temperature; t != nil && !(*t >= 0 && *t <= maxTemperature) {
 		return keyErr([]string{"ambient", "temperature"}, "ambient temperature %v K is outside [0, %g]", *t, maxTemperature)
+	}
+	if v := c.Output.CSV; v != "" && v != "all" && v != "compact" {
+		return keyErr([]string{"output", "csv"}, "csv is %q; use \"all\" or \"compact\"", v)
 	}
 	if u := c.Output.Up; u != "" && u != "z" && u != "y" {
 		return keyErr([]string{"output", "up"}, "up is %q; use \"z\" or \"y\"", u)

@@ -25,7 +25,7 @@ type Run struct {
 	Resume          bool
 	CheckpointEvery time.Duration // default one minute
 	TimeLimit       time.Duration // stop cleanly after this long; 0: none
-	MemoryLimit     int64         // bytes a facet-mode run may plan; 0: no check
+	MemoryLimit     int64         // bytes a facet-mode run may plan; 0: the memory available now, −1: no check
 	Progress        func(raytrace.Progress)
 }
 
@@ -47,6 +47,9 @@ var ErrInterrupted = errors.New("interrupted")
 // Trace runs the estimator on in, writing the checkpoint Dir/tallies.bin
 // every CheckpointEvery, at the end, and on cancellation.
 func (in *Input) Trace(ctx context.Context, run Run) (*Traced, error) {
+	if run.MemoryLimit == 0 {
+		run.MemoryLimit = availableMemory()
+	}
 	opts := raytrace.Options{Settings: in.Settings, NodeOf: in.NodeOf, Threads: run.Threads, Shard: run.Shard, Shards: run.Shards,
 		Targets: run.Targets, CheckpointEvery: run.CheckpointEvery, MemoryLimit: run.MemoryLimit, Progress: run.Progress}
 	nodes, err := raytrace.Nodes(in.Mesh, opts)
@@ -147,4 +150,20 @@ type MismatchError struct{ Differences []string }
 
 func (e *MismatchError) Error() string {
 	return "the tallies were traced from other mesh files or ray settings: " + strings.Join(e.Differences, "; ")
+}
+
+// availableMemory reads MemAvailable from /proc/meminfo (Linux); 0, no
+// check, where it cannot.
+func availableMemory() int64 {
+	b, err := os.ReadFile("/proc/meminfo")
+	if err != nil {
+		return 0
+	}
+	for _, l := range strings.Split(string(b), "\n") {
+		var kb int64
+		if n, _ := fmt.Sscanf(l, "MemAvailable: %d kB", &kb); n == 1 {
+			return kb * 1024
+		}
+	}
+	return 0
 }

@@ -33,7 +33,7 @@ func smoothedRow(a *analysis.Result, i int, dense []float64) []float64 {
 
 // writeSmoothed writes viewfactors_smoothed.csv (up to SquareLimit nodes)
 // and viewfactors_smoothed_pairs.csv; it returns the names written.
-func writeSmoothed(dir string, a *analysis.Result) ([]string, error) {
+func writeSmoothed(dir string, a *analysis.Result, pairs bool) ([]string, error) {
 	var written []string
 	cols := nodeColumns(a)
 	if len(a.Nodes) <= SquareLimit {
@@ -53,6 +53,9 @@ func writeSmoothed(dir string, a *analysis.Result) ([]string, error) {
 			return nil, err
 		}
 		written = append(written, "viewfactors_smoothed.csv")
+	}
+	if !pairs {
+		return written, nil
 	}
 	err := atomicfile.Write(filepath.Join(dir, "viewfactors_smoothed_pairs.csv"), func(w io.Writer) error {
 		lw := newLineWriter(w)

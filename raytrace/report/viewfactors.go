@@ -25,7 +25,7 @@ func columns(res *raytrace.Result) []string {
 
 // writeViewFactors writes the raw view factors, their half-widths and the
 // pairs file; it returns the names written.
-func writeViewFactors(dir string, res *raytrace.Result) ([]string, error) {
+func writeViewFactors(dir string, res *raytrace.Result, pairs bool) ([]string, error) {
 	var written []string
 	cols := columns(res)
 	if len(res.Nodes) <= SquareLimit {
@@ -52,6 +52,9 @@ func writeViewFactors(dir string, res *raytrace.Result) ([]string, error) {
 			}
 			written = append(written, f.name)
 		}
+	}
+	if !pairs {
+		return written, nil
 	}
 	err := atomicfile.Write(filepath.Join(dir, "viewfactors_pairs.csv"), func(w io.Writer) error {
 		lw := newLineWriter(w)

@@ -21,6 +21,11 @@ type Outputs struct {
 	Analysis *analysis.Result
 	// Pictures writes the PNG pictures and model.vtp too.
 	Pictures bool
+	// Compact leaves out the per-pair CSV files (viewfactors_pairs.csv,
+	// viewfactors_smoothed_pairs.csv) and tallies.csv, which run to
+	// gigabytes for facet-level models; the Matrix Market files carry the
+	// same matrices, tallies.bin the counts.
+	Compact bool
 }
 
 // Warnings returns what the user must be told about the results: back-face
@@ -54,7 +59,7 @@ func Write(dir string, o Outputs) ([]string, error) {
 	var written []string
 	nodes := o.nodes()
 	if t := o.Traced; t != nil {
-		vf, err := writeViewFactors(dir, t.Result)
+		vf, err := writeViewFactors(dir, t.Result, !o.Compact)
 		if err != nil {
 			return nil, err
 		}
@@ -63,7 +68,7 @@ func Write(dir string, o Outputs) ([]string, error) {
 			return nil, err
 		}
 		written = append(written, "viewfactors.mtx")
-		if len(nodes) <= SquareLimit {
+		if len(nodes) <= SquareLimit && !o.Compact {
 			if err := writeTallies(dir, t.Result, analysis.SurfaceNames(o.Input.Mesh)); err != nil {
 				return nil, err
 			}
@@ -72,7 +77,7 @@ func Write(dir string, o Outputs) ([]string, error) {
 		written = append(written, analysis.TallyFile)
 	}
 	if a := o.Analysis; a != nil {
-		sm, err := writeSmoothed(dir, a)
+		sm, err := writeSmoothed(dir, a, !o.Compact)
 		if err != nil {
 			return nil, err
 		}
