@@ -131,7 +131,7 @@ func Write(dir string, o Outputs) ([]string, error) {
 		written = append(written, pics...)
 	}
 	if len(nodes) > SquareLimit {
-		written = append(written, fmt.Sprintf("(square matrices skipped: %d nodes > %d; the pairs files have every non-zero factor)", len(nodes), SquareLimit))
+		written = append(written, fmt.Sprintf("(square matrices skipped: %d nodes > %d; the .mtx files have every non-zero factor)", len(nodes), SquareLimit))
 	}
 	return written, nil
 }
