@@ -83,6 +83,11 @@ func Solve(p Problem) (*Solution, error) {
 		}
 	}
 	s := &system{n: nv, rhs: make([]float64, nv)}
+	entries := nv // the diagonal, and one per stored view factor
+	for k := range p.F {
+		entries += p.F[k].Len()
+	}
+	s.rows, s.cols, s.vals = make([]int, 0, entries), make([]int, 0, entries), make([]float64, 0, entries)
 	// irradiation adds row r's terms −a·Σ_j F_kj J_j + (RHS) a·F_amb·σT_amb⁴.
 	irradiation := func(r, k int, a float64) {
 		for i, j := range p.F[k].Col {

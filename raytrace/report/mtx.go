@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"strconv"
 
 	"github.com/hemiray/hemiray/raytrace"
 	"github.com/hemiray/hemiray/raytrace/analysis"
@@ -24,11 +25,11 @@ func writeMTX(path, symmetry, comment string, rows, cols, entries int, body func
 		lw := newLineWriter(w)
 		lw.buf = fmt.Appendf(lw.buf, "%%%%MatrixMarket matrix coordinate real %s\n%% %s\n%d %d %d\n", symmetry, comment, rows, cols, entries)
 		err := body(func(i, j int, v float64) error {
-			lw.int(int64(i + 1))
+			lw.buf = strconv.AppendInt(lw.buf, int64(i+1), 10)
 			lw.buf = append(lw.buf, ' ')
-			lw.buf = fmt.Append(lw.buf, j+1)
+			lw.buf = strconv.AppendInt(lw.buf, int64(j+1), 10)
 			lw.buf = append(lw.buf, ' ')
-			lw.buf = append(lw.buf, num(v)...)
+			lw.buf = strconv.AppendFloat(lw.buf, v, 'g', -1, 64)
 			return lw.end()
 		})
 		if err != nil {

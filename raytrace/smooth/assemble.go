@@ -64,11 +64,41 @@ func assemble(in Counts, tr []CountRow, lam []float64, iters int) *Result {
 		res.SummationBefore = math.Max(res.SummationBefore, math.Abs(1-rawSum))
 		res.SummationAfter = math.Max(res.SummationAfter, math.Abs(1-newSum-res.Ambient[i]))
 	}
+	// The smoothed pattern is symmetric (each row is the union of a row and
+	// a column of the counts), so row i of the transpose holds the same
+	// columns as row i: walk them side by side, O(entries).
+	back := transposeFactors(res.F)
 	for i := range n {
-		for k, j := range res.F[i].Col {
-			back := res.F[j].At(int32(i))
-			res.ReciprocityAfter = math.Max(res.ReciprocityAfter, math.Abs(in.Area[i]*res.F[i].Val[k]-in.Area[j]*back)/maxNew)
+		row, col := &res.F[i], &back[i]
+		for k, j := range row.Col {
+			b := 0.0
+			if k < len(col.Col) && col.Col[k] == j {
+				b = col.Val[k]
+			} else {
+				b = res.F[j].At(int32(i)) // not expected: a pattern that is not symmetric
+			}
+			res.ReciprocityAfter = math.Max(res.ReciprocityAfter, math.Abs(in.Area[i]*row.Val[k]-in.Area[j]*b)/maxNew)
 		}
 	}
 	return res
+}
+
+// transposeFactors returns the rows of the transposed matrix.
+func transposeFactors(rows []FactorRow) []FactorRow {
+	count := make([]int, len(rows))
+	for _, r := range rows {
+		for _, j := range r.Col {
+			count[j]++
+		}
+	}
+	t := make([]FactorRow, len(rows))
+	for j := range t {
+		t[j] = FactorRow{Col: make([]int32, 0, count[j]), Val: make([]float64, 0, count[j])}
+	}
+	for i, r := range rows {
+		for k, j := range r.Col {
+			t[j].Append(int32(i), r.Val[k])
+		}
+	}
+	return t
 }

@@ -42,6 +42,10 @@ func TestCGPoisson(t *testing.T) {
 			t.Fatalf("x[%d] = %v, want 1", i, v)
 		}
 	}
+	// Asymmetric values, and an asymmetric pattern, are told apart.
+	if FromTriplets(2, []int{0, 1}, []int{1, 0}, []float64{1, 2}).Symmetric() || FromTriplets(2, []int{0}, []int{1}, []float64{1}).Symmetric() {
+		t.Error("an asymmetric matrix is taken for symmetric")
+	}
 	// An indefinite matrix is reported, not solved.
 	neg := FromTriplets(2, []int{0, 1}, []int{0, 1}, []float64{1, -1})
 	if CG(neg.Mul, []float64{1, 1}, []float64{1, 1}, make([]float64, 2), 1e-12, 10) {
