@@ -39,7 +39,32 @@ func main() {
 	rays := flag.Int("rays", 2000000, "rays per throughput measurement")
 	threads := flag.Int("threads", runtime.GOMAXPROCS(0), "threads for the multi-thread measurement")
 	objDir := flag.String("obj", "", "also write each workload as DIR/NAME.obj (to time hemiray trace on it)")
+	scale := flag.Bool("scale", false, "instead: the whole pipeline on the 1M-facet sphere at about 10^4 nodes and the cluttered room at about 2,000 nodes, on 1 and -threads threads")
+	scaleRays := flag.Int64("scale-rays", 1000, "with -scale: rays per node")
 	flag.Parse()
+	if *scale {
+		var rs []scaleResult
+		for _, w := range []struct {
+			name string
+			make func() (*mesh.Mesh, error)
+			per  int
+		}{{"sphere", bigSphere, 100}, {"room", clutteredRoom, 100}} {
+			m, err := w.make()
+			if err != nil {
+				log.Fatal(err)
+			}
+			for _, th := range []int{1, *threads} {
+				r, err := runScale(w.name, m, w.per, *scaleRays, th)
+				if err != nil {
+					log.Fatalf("%s: %v", w.name, err)
+				}
+				rs = append(rs, r)
+				log.Printf("%s on %d threads done", w.name, th)
+			}
+		}
+		printScale(rs)
+		return
+	}
 
 	var results []result
 	found := false

@@ -1,0 +1,116 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"os"
+	"path/filepath"
+	"runtime"
+	"sync/atomic"
+	"time"
+
+	"github.com/hemiray/hemiray/mesh"
+	"github.com/hemiray/hemiray/raytrace"
+	"github.com/hemiray/hemiray/raytrace/analysis"
+	"github.com/hemiray/hemiray/raytrace/report"
+)
+
+// scaleResult is one end-to-end run of the whole pipeline on a large model.
+type scaleResult struct {
+	name                  string
+	facets, nodes         int
+	threads               int
+	rays                  int64 // per node
+	traceS, analyseS      float64
+	writeS                float64
+	peakHeapGB, outputsMB float64
+	conductances          bool
+}
+
+// runScale traces, smooths, solves (4 replicates) and writes every output
+// (--csv compact, no pictures) of m with its facets grouped into nodes of
+// per consecutive facets of a surface, every node a gray wall at 300 K.
+func runScale(name string, m *mesh.Mesh, per int, rays int64, threads int) (scaleResult, error) {
+	r := scaleResult{name: name, facets: len(m.Facets), threads: threads, rays: rays}
+	nodeOf := make([]string, len(m.Facets))
+	for _, s := range m.Surfaces {
+		for k, f := range s.Facets {
+			nodeOf[f] = fmt.Sprintf("%s/%d", s.Name, k/per)
+		}
+	}
+	eps, T := 0.8, 300.0
+	in := &analysis.Input{
+		Case:     &analysis.Case{Defaults: analysis.SurfaceSpec{Emissivity: &eps, Temperature: &T}},
+		Mesh:     m,
+		Settings: raytrace.Settings{Rays: rays, Seed: 1, Replicates: 4},
+		NodeOf:   nodeOf,
+	}
+	dir, err := os.MkdirTemp("", "hemiray-scale")
+	if err != nil {
+		return r, err
+	}
+	defer os.RemoveAll(dir)
+	runtime.GC()
+	var base runtime.MemStats
+	runtime.ReadMemStats(&base)
+	var peak atomic.Uint64
+	done, stopped := make(chan struct{}), make(chan struct{})
+	go func() { // sample the heap: the pipeline's peak above what was there
+		defer close(stopped)
+		var ms runtime.MemStats
+		for {
+			runtime.ReadMemStats(&ms)
+			peak.Store(max(peak.Load(), ms.HeapAlloc))
+			select {
+			case <-done:
+				return
+			case <-time.After(20 * time.Millisecond):
+			}
+		}
+	}()
+	t0 := time.Now()
+	t, err := in.Trace(context.Background(), analysis.Run{Dir: dir, Threads: threads, MemoryLimit: -1})
+	if err != nil {
+		close(done)
+		return r, err
+	}
+	t1 := time.Now()
+	a, err := in.Analyse(t.Result)
+	if err != nil {
+		close(done)
+		return r, err
+	}
+	t2 := time.Now()
+	_, err = report.Write(dir, report.Outputs{Input: in, Traced: t, Analysis: a, Compact: true})
+	t3 := time.Now()
+	close(done)
+	<-stopped
+	if err != nil {
+		return r, err
+	}
+	r.nodes, r.conductances = len(t.Result.Nodes), a.S != nil
+	r.traceS, r.analyseS, r.writeS = t1.Sub(t0).Seconds(), t2.Sub(t1).Seconds(), t3.Sub(t2).Seconds()
+	r.peakHeapGB = float64(peak.Load()-min(peak.Load(), base.HeapAlloc)) / (1 << 30)
+	files, _ := filepath.Glob(filepath.Join(dir, "*"))
+	for _, f := range files {
+		if st, err := os.Stat(f); err == nil {
+			r.outputsMB += float64(st.Size()) / 1e6
+		}
+	}
+	return r, nil
+}
+
+// printScale prints the scale table and one machine-readable line a run.
+func printScale(rs []scaleResult) {
+	fmt.Println("\nend to end (trace, smoothing and solve of the pool and 4 replicates, every output with --csv compact)")
+	fmt.Printf("%10s %9s %7s %7s %8s %9s %9s %8s %10s %9s %12s\n", "model", "facets", "nodes", "threads", "rays", "trace_s", "post_s", "post/tr", "peak_GB", "out_MB", "conductances")
+	for _, r := range rs {
+		post := r.analyseS + r.writeS
+		fmt.Printf("%10s %9d %7d %7d %8d %9.1f %9.1f %8.2f %10.2f %9.0f %12v\n", r.name, r.facets, r.nodes, r.threads, r.rays, r.traceS, post, post/r.traceS, r.peakHeapGB, r.outputsMB, r.conductances)
+	}
+	fmt.Println()
+	for _, r := range rs {
+		fmt.Printf("scale=%s facets=%d nodes=%d threads=%d rays_per_node=%d trace_s=%.2f analyse_s=%.2f write_s=%.2f peak_heap_gb=%.2f outputs_mb=%.0f conductances=%v\n",
+			r.name, r.facets, r.nodes, r.threads, r.rays, r.traceS, r.analyseS, r.writeS, r.peakHeapGB, r.outputsMB, r.conductances)
+	}
+}
