@@ -4,6 +4,9 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"runtime"
+	"sync"
+	"sync/atomic"
 
 	"gonum.org/v1/gonum/stat/distuv"
 
@@ -52,19 +55,27 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 		}
 	}
 	open := res.HasAmbient()
-	sm, err := smoothTally(res, &res.Tally, open)
-	if err != nil {
-		return nil, nameNode(err, res.Nodes, res)
+	// The pooled tally and the replicates are smoothed side by side: they
+	// are independent, and each result goes to its own slot, so the order of
+	// work cannot change a bit.
+	tallies := []*raytrace.Tally{&res.Tally}
+	for r := range res.Replicas {
+		tallies = append(tallies, &res.Replicas[r])
 	}
+	sms, errs := make([]*smooth.Result, len(tallies)), make([]error, len(tallies))
+	parallel(len(tallies), func(k int) { sms[k], errs[k] = smoothTally(res, tallies[k], open) })
+	if errs[0] != nil {
+		return nil, nameNode(errs[0], res.Nodes, res)
+	}
+	sm := sms[0]
 	var reps []*smooth.Result
 	var notes []string
 	for r := range res.Replicas {
-		s, err := smoothTally(res, &res.Replicas[r], open)
-		if err != nil {
+		if err := errs[r+1]; err != nil {
 			notes = append(notes, fmt.Sprintf("replicate %d skipped: %v", r, err))
 			continue
 		}
-		reps = append(reps, s)
+		reps = append(reps, sms[r+1])
 	}
 	a, err := in.solve(res.Nodes, sm, reps, open, res.Options.Confidence)
 	if err != nil {
@@ -105,28 +116,41 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 		return nil, err
 	}
 	a := &Result{Nodes: nodes, Open: open, Smoothed: sm, Info: info, AmbientT: p.AmbientT, Confidence: confidence}
-	if a.Solution, err = exchange.Solve(p); err != nil {
-		return nil, nameNode(err, nodes, nil)
-	}
-	if len(nodes) <= exchange.DenseLimit {
-		if a.S, a.ToAmbient, err = exchange.ExchangeAreas(p.Area, p.Emissivity, p.F, p.Ambient); err != nil {
-			return nil, err
+	// Job 0 solves the pooled matrix, job 1 computes the exchange areas,
+	// job 2+r solves replicate r: independent work, run side by side.
+	dense := len(nodes) <= exchange.DenseLimit
+	sols, errs := make([]*exchange.Solution, 2+len(reps)), make([]error, 2+len(reps))
+	parallel(len(sols), func(k int) {
+		switch {
+		case k == 0:
+			sols[0], errs[0] = exchange.Solve(p)
+		case k == 1 && dense:
+			a.S, a.ToAmbient, errs[1] = exchange.ExchangeAreas(p.Area, p.Emissivity, p.F, p.Ambient)
+		case k >= 2:
+			pr, _, err := problem(in.Case, in.Mesh, nodes, reps[k-2], open)
+			if err == nil {
+				sols[k], err = exchange.Solve(pr)
+			}
+			errs[k] = err
 		}
-	} else {
+	})
+	if errs[0] != nil {
+		return nil, nameNode(errs[0], nodes, nil)
+	}
+	if errs[1] != nil {
+		return nil, errs[1]
+	}
+	a.Solution = sols[0]
+	if !dense {
 		a.Notes = append(a.Notes, fmt.Sprintf("conductances.csv not written: %d nodes exceed the dense limit of %d for exchange factors", len(nodes), exchange.DenseLimit))
 	}
 	var Ts, Qs [][]float64
-	for r, s := range reps {
-		pr, _, err := problem(in.Case, in.Mesh, nodes, s, open)
-		if err != nil {
-			return nil, err
-		}
-		sol, err := exchange.Solve(pr)
-		if err != nil {
+	for r := range reps {
+		if err := errs[2+r]; err != nil {
 			a.Notes = append(a.Notes, fmt.Sprintf("replicate %d skipped: %v", r, err))
 			continue
 		}
-		Ts, Qs = append(Ts, sol.T), append(Qs, sol.Q)
+		Ts, Qs = append(Ts, sols[2+r].T), append(Qs, sols[2+r].Q)
 	}
 	if len(Ts) >= 2 {
 		a.Replicates = len(Ts)
@@ -134,6 +158,20 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 		a.QHalf = TInterval(Qs, confidence)
 	}
 	return a, nil
+}
+
+// parallel runs fn(0) … fn(n−1) on up to GOMAXPROCS goroutines and waits.
+func parallel(n int, fn func(k int)) {
+	var wg sync.WaitGroup
+	next := atomic.Int64{}
+	for range min(n, runtime.GOMAXPROCS(0)) {
+		wg.Go(func() {
+			for k := int(next.Add(1) - 1); k < n; k = int(next.Add(1) - 1) {
+				fn(k)
+			}
+		})
+	}
+	wg.Wait()
 }
 
 // TInterval returns, for every column of rows (one row per independent
