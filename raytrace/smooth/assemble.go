@@ -1,6 +1,10 @@
 package smooth
 
-import "math"
+import (
+	"math"
+
+	"github.com/hemiray/hemiray/raytrace/internal/sparse"
+)
 
 // assemble builds the smoothed rows from λ and measures the change. tr is
 // the transpose of the counts (see transpose).
@@ -67,7 +71,7 @@ func assemble(in Counts, tr []CountRow, lam []float64, iters int) *Result {
 	// The smoothed pattern is symmetric (each row is the union of a row and
 	// a column of the counts), so row i of the transpose holds the same
 	// columns as row i: walk them side by side, O(entries).
-	back := transposeFactors(res.F)
+	back := sparse.Transpose(res.F)
 	for i := range n {
 		row, col := &res.F[i], &back[i]
 		for k, j := range row.Col {
@@ -81,24 +85,4 @@ func assemble(in Counts, tr []CountRow, lam []float64, iters int) *Result {
 		}
 	}
 	return res
-}
-
-// transposeFactors returns the rows of the transposed matrix.
-func transposeFactors(rows []FactorRow) []FactorRow {
-	count := make([]int, len(rows))
-	for _, r := range rows {
-		for _, j := range r.Col {
-			count[j]++
-		}
-	}
-	t := make([]FactorRow, len(rows))
-	for j := range t {
-		t[j] = FactorRow{Col: make([]int32, 0, count[j]), Val: make([]float64, 0, count[j])}
-	}
-	for i, r := range rows {
-		for k, j := range r.Col {
-			t[j].Append(int32(i), r.Val[k])
-		}
-	}
-	return t
 }

@@ -91,7 +91,7 @@ func Smooth(in Counts) (*Result, error) {
 	// Pool the counts of each unordered pair, walking every row with its
 	// transpose: pairs come out in (i, j) order, so every floating-point sum,
 	// and so the result, is the same bit for bit from run to run.
-	tr := transpose(in.Hits)
+	tr := sparse.Transpose(in.Hits)
 	var offd []pair
 	diagC := make([]float64, n) // k_ii + k_i,amb
 	for i := range n {
@@ -114,27 +114,6 @@ func Smooth(in Counts) (*Result, error) {
 		return nil, err
 	}
 	return assemble(in, tr, lam, iters), nil
-}
-
-// transpose returns the rows of the transposed count matrix (columns
-// increasing, as the rows were built in order).
-func transpose(rows []CountRow) []CountRow {
-	t := make([]CountRow, len(rows))
-	count := make([]int, len(rows))
-	for _, row := range rows {
-		for _, j := range row.Col {
-			count[j]++
-		}
-	}
-	for j := range t {
-		t[j] = CountRow{Col: make([]int32, 0, count[j]), Val: make([]int64, 0, count[j])}
-	}
-	for i, row := range rows {
-		for k, j := range row.Col {
-			t[j].Append(int32(i), row.Val[k])
-		}
-	}
-	return t
 }
 
 // mergeRows calls fn for every column present in row a or b, with the

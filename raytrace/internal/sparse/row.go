@@ -75,3 +75,25 @@ func (r *Row[V]) Increasing(n int) bool {
 	}
 	return len(r.Col) == len(r.Val)
 }
+
+// Transpose returns the rows of the transposed matrix of rows (a square
+// one, columns below len(rows)); each comes out with columns increasing,
+// as the rows are walked in order.
+func Transpose[V int64 | float64](rows []Row[V]) []Row[V] {
+	count := make([]int, len(rows))
+	for _, r := range rows {
+		for _, j := range r.Col {
+			count[j]++
+		}
+	}
+	t := make([]Row[V], len(rows))
+	for j := range t {
+		t[j] = Row[V]{Col: make([]int32, 0, count[j]), Val: make([]V, 0, count[j])}
+	}
+	for i, r := range rows {
+		for k, j := range r.Col {
+			t[j].Append(int32(i), r.Val[k])
+		}
+	}
+	return t
+}

@@ -2,6 +2,7 @@ package sparse
 
 import (
 	"reflect"
+	"slices"
 	"testing"
 )
 
@@ -17,5 +18,20 @@ func TestRow(t *testing.T) {
 	}
 	if !a.Increasing(8) || a.Increasing(7) || (&Row[int64]{Col: []int32{2, 2}, Val: []int64{1, 1}}).Increasing(9) {
 		t.Error("Increasing")
+	}
+}
+
+// Transposing twice gives the rows back; the transpose's columns increase.
+func TestTranspose(t *testing.T) {
+	rows := []Row[float64]{{Col: []int32{1, 2}, Val: []float64{0.5, 0.25}}, {Col: []int32{0}, Val: []float64{1}}, {}}
+	tr := Transpose(rows)
+	if want := (Row[float64]{Col: []int32{0}, Val: []float64{0.5}}); !reflect.DeepEqual(tr[1], want) || tr[2].At(0) != 0.25 || tr[0].At(1) != 1 {
+		t.Errorf("transpose %+v", tr)
+	}
+	back := Transpose(tr)
+	for i := range rows {
+		if !slices.Equal(back[i].Col, rows[i].Col) || !slices.Equal(back[i].Val, rows[i].Val) {
+			t.Errorf("row %d: %+v, want %+v", i, back[i], rows[i])
+		}
 	}
 }
