@@ -343,6 +343,16 @@ func TestByteOrderMark(t *testing.T) {
 	}
 }
 
+// A control character inside a group name (a stray carriage return, a
+// tab) becomes a space: the name goes into CSV files.
+func TestControlCharactersInNames(t *testing.T) {
+	obj := "v 0 0 0\nv 2 0 0\nv 0 1 0\ng top\rlid\tA \r\nf 1 2 3\n"
+	m, err := ReadOBJ(strings.NewReader(obj), "cr.obj", OBJOptions{Unit: Metre})
+	if err != nil || len(m.Surfaces) != 1 || m.Surfaces[0].Name != "top lid A" {
+		t.Errorf("got %v, %+v; want one surface \"top lid A\"", err, m.Surfaces)
+	}
+}
+
 // Special files are refused before they are opened: a FIFO would block the
 // read forever, a device would never end.
 func TestLoadRefusesSpecialFiles(t *testing.T) {

@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"unicode"
 
 	"github.com/hschendel/stl"
 )
@@ -144,9 +145,18 @@ func binaryHeaderName(h []byte) string {
 	return s
 }
 
-// surfaceName is given, or the file's base name without extension.
+// surfaceName is given, or the file's base name without extension. A
+// control character inside a given name (a stray carriage return or tab)
+// becomes a space: node names go into CSV files, where line breaks inside a
+// field do not read back alike everywhere.
 func surfaceName(given, path string) string {
-	if given != "" {
+	given = strings.Map(func(r rune) rune {
+		if unicode.IsControl(r) {
+			return ' '
+		}
+		return r
+	}, given)
+	if given = strings.TrimSpace(given); given != "" {
 		return given
 	}
 	base := filepath.Base(path)

@@ -270,6 +270,7 @@ func TestNodeNamesUnambiguous(t *testing.T) {
 	}{
 		{join(rect("ambient", 0), rect("b", 1)), Settings{}, `called "ambient"`},
 		{join(rect("x", 0), rect("x.back", 1)), Settings{TwoSided: []string{"x"}}, `"x.back"`},
+		{join(rect("a", 0), rect("b\r\nc", 1)), Settings{}, "control character"}, // as a rename in the case could give
 	}
 	for _, tc := range tests {
 		if _, err := Nodes(tc.m, Options{Settings: tc.s}); err == nil || !strings.Contains(err.Error(), tc.want) {

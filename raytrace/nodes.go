@@ -2,6 +2,8 @@ package raytrace
 
 import (
 	"fmt"
+	"strings"
+	"unicode"
 
 	"github.com/hemiray/hemiray/mesh"
 )
@@ -142,12 +144,15 @@ func addGroups(nm *nodeMap, surf *mesh.Surface, s int, two bool, names []string,
 }
 
 // checkNames refuses node names that would be ambiguous in the outputs:
-// "ambient" (the surroundings' column) and any name two nodes share — a
+// names holding control characters, "ambient" (the surroundings' column) and any name two nodes share — a
 // surface called X.back beside a two-sided X, or a surface called P#3
 // beside the facet nodes of P.
 func checkNames(nodes []Node, m *mesh.Mesh) error {
 	seen := make(map[string]int, len(nodes))
 	for i, n := range nodes {
+		if strings.IndexFunc(n.Name, unicode.IsControl) >= 0 {
+			return fmt.Errorf("node name %q holds a control character (a line break or tab): rename the surface", n.Name)
+		}
 		if n.Name == "ambient" {
 			return fmt.Errorf("a surface is called %q, the name of the surroundings' column: rename it in the mesh file (OBJ g/o line, STL solid name)", n.Name)
 		}

@@ -16,6 +16,7 @@ func FuzzReadViewFactors(f *testing.F) {
 	f.Add([]byte("from,a,b,ambient\na,0,0.5,0.5\nb,0.25,0,0.75\n"))
 	f.Add([]byte("from,to,F,stderr\na,b,0.5,0.01\na,ambient,0.5,0.01\n"))
 	f.Add([]byte("\xef\xbb\xbffrom,to,F\n\"a,b\",c,1\n"))
+	f.Add([]byte("from,to,F\n\"\r\r\n\",,0")) // a line break inside a name is refused
 	f.Fuzz(func(t *testing.T, data []byte) {
 		g, err := ReadViewFactors(bytes.NewReader(data), "fuzz.csv")
 		if err != nil {

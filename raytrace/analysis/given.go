@@ -9,6 +9,7 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"unicode"
 
 	"github.com/hemiray/hemiray/raytrace"
 	"github.com/hemiray/hemiray/raytrace/exchange"
@@ -47,6 +48,11 @@ func ReadViewFactors(r io.Reader, name string) ([]Given, error) {
 		return nil, fmt.Errorf("%s:1: the header must start with \"from\" (a square matrix from,NODE,… or pairs from,to,F)", name)
 	}
 	pairs := len(head) >= 3 && head[1] == "to" && head[2] == "F"
+	if !pairs {
+		if err := plainNames(name, 1, head[1:]); err != nil {
+			return nil, err
+		}
+	}
 	var out []Given
 	for line := 2; ; line++ {
 		rec, err := cr.Read()
@@ -70,6 +76,9 @@ func ReadViewFactors(r io.Reader, name string) ([]Given, error) {
 			if len(rec) < 3 {
 				return nil, fmt.Errorf("%s:%d: a pair needs from, to and F", name, line)
 			}
+			if err := plainNames(name, line, rec[:2]); err != nil {
+				return nil, err
+			}
 			f, err := parse(rec[2])
 			if err != nil {
 				return nil, err
@@ -78,6 +87,9 @@ func ReadViewFactors(r io.Reader, name string) ([]Given, error) {
 		} else {
 			if len(rec) != len(head) {
 				return nil, fmt.Errorf("%s:%d: %d fields, the header has %d", name, line, len(rec), len(head))
+			}
+			if err := plainNames(name, line, rec[:1]); err != nil {
+				return nil, err
 			}
 			for k, s := range rec[1:] {
 				f, err := parse(s)
@@ -100,6 +112,18 @@ func ReadViewFactors(r io.Reader, name string) ([]Given, error) {
 		return nil, fmt.Errorf("%s: no view factors", name)
 	}
 	return out, nil
+}
+
+// plainNames refuses node names holding control characters (a carriage
+// return or line feed inside quotes, a tab): no mesh file can name a node
+// so, and CSV readers disagree on how such a field reads back.
+func plainNames(file string, line int, names []string) error {
+	for _, s := range names {
+		if strings.IndexFunc(s, unicode.IsControl) >= 0 {
+			return fmt.Errorf("%s:%d: node name %q holds a control character", file, line, s)
+		}
+	}
+	return nil
 }
 
 // givenScale is the number of rays every row is taken to have when given
