@@ -41,6 +41,8 @@ func main() {
 	objDir := flag.String("obj", "", "also write each workload as DIR/NAME.obj (to time hemiray trace on it)")
 	scale := flag.Bool("scale", false, "instead: the whole pipeline on the 1M-facet sphere at about 10^4 nodes and the cluttered room at about 2,000 nodes, on 1 and -threads threads")
 	scaleRays := flag.Int64("scale-rays", 1000, "with -scale: rays per node")
+	scaleDrop := flag.Float64("scale-drop", 0, "with -scale: drop conductors below this share of both nodes' emission")
+	scalePer := flag.Int("scale-per", 100, "with -scale: facets per node")
 	flag.Parse()
 	if *scale {
 		var rs []scaleResult
@@ -48,13 +50,16 @@ func main() {
 			name string
 			make func() (*mesh.Mesh, error)
 			per  int
-		}{{"sphere", bigSphere, 100}, {"room", clutteredRoom, 100}} {
+		}{{"sphere", bigSphere, *scalePer}, {"room", clutteredRoom, *scalePer}} {
+			if *which != "all" && *which != w.name {
+				continue
+			}
 			m, err := w.make()
 			if err != nil {
 				log.Fatal(err)
 			}
 			for _, th := range []int{1, *threads} {
-				r, err := runScale(w.name, m, w.per, *scaleRays, th)
+				r, err := runScale(w.name, m, w.per, *scaleRays, th, *scaleDrop)
 				if err != nil {
 					log.Fatalf("%s: %v", w.name, err)
 				}

@@ -24,14 +24,18 @@ type scaleResult struct {
 	traceS, analyseS      float64
 	writeS                float64
 	peakHeapGB, outputsMB float64
-	conductances          bool
+	drop                  float64 // conductor threshold
+	conductS              float64 // of analyseS, in parallel with the pooled solve
+	kept                  int     // conductors written
+	iterations            int     // 0: dense
+	maxDropped            float64 // largest share of a node's emission dropped
 }
 
 // runScale traces, smooths, solves (4 replicates) and writes every output
 // (--csv compact, no pictures) of m with its facets grouped into nodes of
 // per consecutive facets of a surface, every node a gray wall at 300 K.
-func runScale(name string, m *mesh.Mesh, per int, rays int64, threads int) (scaleResult, error) {
-	r := scaleResult{name: name, facets: len(m.Facets), threads: threads, rays: rays}
+func runScale(name string, m *mesh.Mesh, per int, rays int64, threads int, drop float64) (scaleResult, error) {
+	r := scaleResult{name: name, facets: len(m.Facets), threads: threads, rays: rays, drop: drop}
 	nodeOf := make([]string, len(m.Facets))
 	for _, s := range m.Surfaces {
 		for k, f := range s.Facets {
@@ -40,7 +44,8 @@ func runScale(name string, m *mesh.Mesh, per int, rays int64, threads int) (scal
 	}
 	eps, T := 0.8, 300.0
 	in := &analysis.Input{
-		Case:     &analysis.Case{Defaults: analysis.SurfaceSpec{Emissivity: &eps, Temperature: &T}},
+		Case: &analysis.Case{Defaults: analysis.SurfaceSpec{Emissivity: &eps, Temperature: &T},
+			Output: analysis.OutputSpec{DropConductors: drop}},
 		Mesh:     m,
 		Settings: raytrace.Settings{Rays: rays, Seed: 1, Replicates: 4},
 		NodeOf:   nodeOf,
@@ -88,7 +93,11 @@ func runScale(name string, m *mesh.Mesh, per int, rays int64, threads int) (scal
 	if err != nil {
 		return r, err
 	}
-	r.nodes, r.conductances = len(t.Result.Nodes), a.S != nil
+	c := a.Conductors
+	r.nodes, r.conductS, r.kept, r.iterations = len(t.Result.Nodes), c.Elapsed.Seconds(), c.Kept(), c.Iterations
+	for _, d := range c.Dropped {
+		r.maxDropped = max(r.maxDropped, d)
+	}
 	r.traceS, r.analyseS, r.writeS = t1.Sub(t0).Seconds(), t2.Sub(t1).Seconds(), t3.Sub(t2).Seconds()
 	r.peakHeapGB = float64(peak.Load()-min(peak.Load(), base.HeapAlloc)) / (1 << 30)
 	files, _ := filepath.Glob(filepath.Join(dir, "*"))
@@ -103,14 +112,15 @@ func runScale(name string, m *mesh.Mesh, per int, rays int64, threads int) (scal
 // printScale prints the scale table and one machine-readable line a run.
 func printScale(rs []scaleResult) {
 	fmt.Println("\nend to end (trace, smoothing and solve of the pool and 4 replicates, every output with --csv compact)")
-	fmt.Printf("%10s %9s %7s %7s %8s %9s %9s %8s %10s %9s %12s\n", "model", "facets", "nodes", "threads", "rays", "trace_s", "post_s", "post/tr", "peak_GB", "out_MB", "conductances")
+	fmt.Printf("%10s %9s %7s %7s %8s %9s %9s %8s %10s %9s %9s %10s %6s %8s\n", "model", "facets", "nodes", "threads", "rays", "trace_s", "post_s", "post/tr", "peak_GB", "out_MB", "cond_s", "kept", "iter", "dropped")
 	for _, r := range rs {
 		post := r.analyseS + r.writeS
-		fmt.Printf("%10s %9d %7d %7d %8d %9.1f %9.1f %8.2f %10.2f %9.0f %12v\n", r.name, r.facets, r.nodes, r.threads, r.rays, r.traceS, post, post/r.traceS, r.peakHeapGB, r.outputsMB, r.conductances)
+		fmt.Printf("%10s %9d %7d %7d %8d %9.1f %9.1f %8.2f %10.2f %9.0f %9.1f %10d %6d %8.1e\n", r.name, r.facets, r.nodes, r.threads, r.rays, r.traceS, post, post/r.traceS, r.peakHeapGB, r.outputsMB, r.conductS, r.kept, r.iterations, r.maxDropped)
 	}
+	fmt.Println("cond_s: conductances (beside the pooled solve); iter: most CG iterations of a column (0: dense LU); dropped: largest share of a node's emission in dropped conductors")
 	fmt.Println()
 	for _, r := range rs {
-		fmt.Printf("scale=%s facets=%d nodes=%d threads=%d rays_per_node=%d trace_s=%.2f analyse_s=%.2f write_s=%.2f peak_heap_gb=%.2f outputs_mb=%.0f conductances=%v\n",
-			r.name, r.facets, r.nodes, r.threads, r.rays, r.traceS, r.analyseS, r.writeS, r.peakHeapGB, r.outputsMB, r.conductances)
+		fmt.Printf("scale=%s facets=%d nodes=%d threads=%d rays_per_node=%d trace_s=%.2f analyse_s=%.2f write_s=%.2f peak_heap_gb=%.2f outputs_mb=%.0f conductances_s=%.2f conductors=%d drop=%g max_dropped_share=%.3g\n",
+			r.name, r.facets, r.nodes, r.threads, r.rays, r.traceS, r.analyseS, r.writeS, r.peakHeapGB, r.outputsMB, r.conductS, r.kept, r.drop, r.maxDropped)
 	}
 }

@@ -29,10 +29,9 @@ type Result struct {
 	Solution   *exchange.Solution
 	Info       []NodeInfo
 	AmbientT   float64 // K
-	// S are the total exchange areas A_iℱ_ij in m² and ToAmbient those to
-	// the ambient; nil above exchange.DenseLimit nodes.
-	S         [][]float64
-	ToAmbient []float64
+	// Conductors are the total exchange areas A_iℱ_ij in m², sparse and
+	// symmetric, with those to the ambient.
+	Conductors *exchange.Conductors
 	// THalf and QHalf are the half-widths of the Student-t intervals on T
 	// and Q from Replicates independent replicates at Confidence (nil
 	// without replicates).
@@ -118,14 +117,13 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 	a := &Result{Nodes: nodes, Open: open, Smoothed: sm, Info: info, AmbientT: p.AmbientT, Confidence: confidence}
 	// Job 0 solves the pooled matrix, job 1 computes the exchange areas,
 	// job 2+r solves replicate r: independent work, run side by side.
-	dense := len(nodes) <= exchange.DenseLimit
 	sols, errs := make([]*exchange.Solution, 2+len(reps)), make([]error, 2+len(reps))
 	parallel(len(sols), func(k int) {
 		switch {
 		case k == 0:
 			sols[0], errs[0] = exchange.Solve(p)
-		case k == 1 && dense:
-			a.S, a.ToAmbient, errs[1] = exchange.ExchangeAreas(p.Area, p.Emissivity, p.F, p.Ambient)
+		case k == 1:
+			a.Conductors, errs[1] = exchange.TotalExchange(p.Area, p.Emissivity, p.F, p.Ambient, in.Case.Output.DropConductors)
 		case k >= 2:
 			pr, _, err := problem(in.Case, in.Mesh, nodes, reps[k-2], open)
 			if err == nil {
@@ -138,12 +136,9 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 		return nil, nameNode(errs[0], nodes, nil)
 	}
 	if errs[1] != nil {
-		return nil, errs[1]
+		return nil, nameNode(errs[1], nodes, nil)
 	}
 	a.Solution = sols[0]
-	if !dense {
-		a.Notes = append(a.Notes, fmt.Sprintf("conductances.csv not written: %d nodes exceed the dense limit of %d for exchange factors", len(nodes), exchange.DenseLimit))
-	}
 	var Ts, Qs [][]float64
 	for r := range reps {
 		if err := errs[2+r]; err != nil {

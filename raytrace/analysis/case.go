@@ -70,6 +70,11 @@ type OutputSpec struct {
 	// CSV is "all" (the default) or "compact": no per-pair CSV files and no
 	// tallies.csv (the .mtx files and tallies.bin carry the same numbers).
 	CSV string `toml:"csv"`
+	// DropConductors leaves out of the conductance files every conductor
+	// that carries less than this share of both its nodes' emission
+	// (0, the default, keeps all); each node's dropped share goes to
+	// nodes.csv.
+	DropConductors float64 `toml:"drop_conductors"`
 }
 
 // SurfaceSpec is the settings of one node (or the defaults). Unset values
@@ -137,6 +142,9 @@ func (c *Case) Validate() error {
 	}
 	if v := c.Output.CSV; v != "" && v != "all" && v != "compact" {
 		return keyErr([]string{"output", "csv"}, "csv is %q; use \"all\" or \"compact\"", v)
+	}
+	if d := c.Output.DropConductors; !(d >= 0 && d < 1) {
+		return keyErr([]string{"output", "drop_conductors"}, "drop_conductors %v is not a share in [0, 1)", d)
 	}
 	if u := c.Output.Up; u != "" && u != "z" && u != "y" {
 		return keyErr([]string{"output", "up"}, "up is %q; use \"z\" or \"y\"", u)

@@ -6,13 +6,13 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
-// ExchangeAreas returns the total exchange areas S_ij = A_i·ℱ_ij = ε_i A_i B_ij
+// denseExchangeAreas returns the total exchange areas S_ij = A_i·ℱ_ij = ε_i A_i B_ij
 // in m², symmetrised (they are equal up to round-off when F is reciprocal),
 // and each node's exchange area with the ambient ε_i A_i B_i,amb, where B
 // are Gebhart's absorption factors B = (I − F R)⁻¹ [F E | F_amb]. Multiply
 // by Sigma for radiative conductances in W/K⁴. Dense: at most DenseLimit
 // nodes.
-func ExchangeAreas(area, eps []float64, F []Row, ambient []float64) (S [][]float64, toAmbient []float64, err error) {
+func denseExchangeAreas(area, eps []float64, F []Row, ambient []float64) (S [][]float64, toAmbient []float64, err error) {
 	n := len(area)
 	if len(eps) != n || len(F) != n || (ambient != nil && len(ambient) != n) {
 		return nil, nil, fmt.Errorf("exchange: %d areas, %d emissivities, %d rows of F", n, len(eps), len(F))

@@ -99,17 +99,13 @@ func writeAnalysisMTX(dir string, a *analysis.Result) ([]string, error) {
 			}
 			return nil
 		})
-	if err != nil || a.S == nil {
+	c := a.Conductors
+	if err != nil || c == nil {
 		return []string{"viewfactors_smoothed.mtx"}, err
 	}
-	nnz = 0
+	nnz = c.Kept()
 	for i := range n {
-		for j := range i {
-			if a.S[i][j] > 0 {
-				nnz++
-			}
-		}
-		if a.ToAmbient != nil && a.ToAmbient[i] > 0 {
+		if c.ToAmbient != nil && c.ToAmbient[i] > 0 {
 			nnz++
 		}
 	}
@@ -117,17 +113,15 @@ func writeAnalysisMTX(dir string, a *analysis.Result) ([]string, error) {
 		"hemiray radiative conductances sigma*A_i*(script F)_ij in W/K^4; index N+1 is the ambient; names in nodes.csv", n+1, n+1, nnz,
 		func(put func(i, j int, v float64) error) error {
 			for i := range n {
-				for j := range i {
-					if s := a.S[i][j]; s > 0 {
-						if err := put(i, j, exchange.Sigma*s); err != nil {
-							return err
-						}
+				for k, j := range c.Lower[i].Col {
+					if err := put(i, int(j), exchange.Sigma*c.Lower[i].Val[k]); err != nil {
+						return err
 					}
 				}
 			}
 			for i := range n {
-				if a.ToAmbient != nil && a.ToAmbient[i] > 0 {
-					if err := put(n, i, exchange.Sigma*a.ToAmbient[i]); err != nil {
+				if c.ToAmbient != nil && c.ToAmbient[i] > 0 {
+					if err := put(n, i, exchange.Sigma*c.ToAmbient[i]); err != nil {
 						return err
 					}
 				}

@@ -7,6 +7,7 @@ import (
 
 	"github.com/hemiray/hemiray/raytrace/analysis"
 	"github.com/hemiray/hemiray/raytrace/exchange"
+	"github.com/hemiray/hemiray/raytrace/internal/sparse"
 )
 
 // SurfaceColumns is the header of surfaces.csv: one quantity and one unit
@@ -53,14 +54,15 @@ func celsius(T float64) float64 { return math.Round((T-273.15)*1e9) / 1e9 }
 func writeConductances(dir string, a *analysis.Result) error {
 	return writeCSV(filepath.Join(dir, "conductances.csv"), func(emit func(...string)) error {
 		emit("from", "to", "exchange_factor", "conductance_W_per_K4")
+		c := a.Conductors
+		upper := sparse.Transpose(c.Lower) // row i: the conductors to j > i
 		for i, n := range a.Nodes {
-			for j := i + 1; j < len(a.Nodes); j++ {
-				if s := a.S[i][j]; s > 0 {
-					emit(n.Name, a.Nodes[j].Name, num(s/n.Area), num(exchange.Sigma*s))
-				}
+			for k, j := range upper[i].Col {
+				s := upper[i].Val[k]
+				emit(n.Name, a.Nodes[j].Name, num(s/n.Area), num(exchange.Sigma*s))
 			}
-			if a.Open && a.ToAmbient[i] > 0 {
-				emit(n.Name, "ambient", num(a.ToAmbient[i]/n.Area), num(exchange.Sigma*a.ToAmbient[i]))
+			if a.Open && c.ToAmbient[i] > 0 {
+				emit(n.Name, "ambient", num(c.ToAmbient[i]/n.Area), num(exchange.Sigma*c.ToAmbient[i]))
 			}
 		}
 		return nil

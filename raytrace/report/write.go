@@ -91,7 +91,7 @@ func Write(dir string, o Outputs) ([]string, error) {
 			return nil, err
 		}
 		written = append(written, mtx...)
-		if a.S != nil {
+		if a.Conductors != nil {
 			if err := writeConductances(dir, a); err != nil {
 				return nil, err
 			}

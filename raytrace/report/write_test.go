@@ -138,10 +138,11 @@ print(F.shape[0], F.shape[1], G.shape[0], repr(F[0][1]), repr(F[1][2]), repr(G[1
 	f := strings.Fields(string(out))
 	val := func(k int) float64 { x, _ := strconv.ParseFloat(f[k], 64); return x }
 	sigma := 5.670374419e-8
+	c := a.Conductors
 	if f[0] != "2" || f[1] != "3" || f[2] != "3" ||
 		val(3) != a.Smoothed.F[0].At(1) || val(4) != a.Smoothed.Ambient[1] ||
-		val(5) != sigma*a.S[1][0] || val(6) != val(5) || val(7) != sigma*a.ToAmbient[0] {
+		val(5) != sigma*c.Lower[1].At(0) || val(6) != val(5) || val(7) != sigma*c.ToAmbient[0] {
 		t.Errorf("scipy reads %v; want F01 %v, F1amb %v, G10 = G01 = %v, G amb0 %v",
-			f, a.Smoothed.F[0].At(1), a.Smoothed.Ambient[1], sigma*a.S[1][0], sigma*a.ToAmbient[0])
+			f, a.Smoothed.F[0].At(1), a.Smoothed.Ambient[1], sigma*c.Lower[1].At(0), sigma*c.ToAmbient[0])
 	}
 }
