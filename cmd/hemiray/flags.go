@@ -35,6 +35,7 @@ type traceFlags struct {
 	plan            string
 	noPictures      bool
 	csv             string
+	dropConductors  float64
 }
 
 // newTraceFlags returns the flags with their defaults, registered or not.
@@ -78,6 +79,7 @@ func (tf *traceFlags) register(fs *flag.FlagSet, groups int) {
 		fs.BoolVar(&tf.quiet, "quiet", false, "no progress output")
 		fs.BoolVar(&tf.noPictures, "no-pictures", false, "do not write the PNG pictures and model.vtp")
 		fs.StringVar(&tf.csv, "csv", "", "all, or compact: no per-pair CSVs and no tallies.csv, the .mtx files carry the matrices (default: the case's output.csv, else all)")
+		fs.Float64Var(&tf.dropConductors, "drop-conductors", 0, "leave out conductors below this share of both nodes' emission, e.g. 1e-6 (default: the case's output.drop_conductors, else 0: keep all)")
 	}
 }
 
@@ -158,6 +160,14 @@ func loadInput(fs *flag.FlagSet, tf *traceFlags, args []string) (*job, error) {
 		return nil, usagef("--csv %q: give all or compact", csv)
 	}
 	j.compact = csv == "compact"
+	if set["drop-conductors"] {
+		if !(tf.dropConductors >= 0 && tf.dropConductors < 1) {
+			return nil, usagef("--drop-conductors %v: give a share in [0, 1)", tf.dropConductors)
+		}
+		if j.in.Case != nil {
+			j.in.Case.Output.DropConductors = tf.dropConductors
+		}
+	}
 	if tf.shard != "" {
 		if j.run.Shard, j.run.Shards, err = parseShard(tf.shard); err != nil {
 			return nil, err

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/csv"
 	"encoding/xml"
+	"fmt"
 	"image/png"
 	"math"
 	"os"
@@ -14,6 +15,7 @@ import (
 
 	"github.com/hemiray/hemiray/geometry"
 	"github.com/hemiray/hemiray/mesh"
+	"github.com/hemiray/hemiray/raytrace/analysis"
 	"github.com/hemiray/hemiray/raytrace/exchange"
 )
 
@@ -337,5 +339,80 @@ func TestRunSplitSurface(t *testing.T) {
 	}
 	if f := string(mustRead(t, filepath.Join(out, "facets.csv"))); !strings.HasPrefix(f, "facet,surface,node,back_node\n0,") || !strings.Contains(f, "floor[") {
 		t.Errorf("facets.csv starts %q", f[:min(len(f), 80)])
+	}
+}
+
+// --drop-conductors leaves out exactly the conductors below the share of
+// both nodes' emission, and nodes.csv gives each node's dropped share:
+// compared with a run that keeps them all (the same seed, so the same
+// factors).
+func TestDropConductors(t *testing.T) {
+	dir := t.TempDir()
+	cs, err := analysis.WriteDemo(filepath.Join(dir, "demo"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	all, some := filepath.Join(dir, "all"), filepath.Join(dir, "some")
+	const tau = 0.02
+	for _, r := range []struct {
+		out  string
+		more []string
+	}{{all, nil}, {some, []string{"--drop-conductors", fmt.Sprint(tau)}}} {
+		args := append([]string{"run", cs, "--rays", "3000", "--quiet", "--no-pictures", "-o", r.out}, r.more...)
+		if code, _, e := runCLI(args...); code != 0 {
+			t.Fatal(e)
+		}
+	}
+	s := readSurfaces(t, filepath.Join(all, "surfaces.csv"))
+	emission := func(n string) float64 { return exchange.Sigma * val(t, s[n]["emissivity"]) * val(t, s[n]["area_m2"]) }
+	read := func(p string) [][]string {
+		f, err := os.Open(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		defer f.Close()
+		recs, err := csv.NewReader(f).ReadAll()
+		if err != nil {
+			t.Fatal(err)
+		}
+		return recs[1:]
+	}
+	kept := map[[2]string]bool{}
+	for _, r := range read(filepath.Join(some, "conductances.csv")) {
+		kept[[2]string{r[0], r[1]}] = true
+	}
+	dropped := map[string]float64{}
+	gone := 0
+	for _, r := range read(filepath.Join(all, "conductances.csv")) {
+		if r[1] == "ambient" {
+			if !kept[[2]string{r[0], r[1]}] {
+				t.Errorf("%s–ambient dropped: the ambient link is never dropped", r[0])
+			}
+			continue
+		}
+		g := val(t, r[3])
+		small := g < tau*min(emission(r[0]), emission(r[1]))
+		if small == kept[[2]string{r[0], r[1]}] {
+			t.Errorf("%s–%s, %v W/K⁴: below the threshold %v, kept %v", r[0], r[1], g, small, !small)
+		}
+		if small {
+			gone++
+			dropped[r[0]] += g / emission(r[0])
+			dropped[r[1]] += g / emission(r[1])
+		}
+	}
+	if gone == 0 {
+		t.Fatalf("nothing dropped at %v: pick a larger threshold", tau)
+	}
+	for _, r := range read(filepath.Join(some, "nodes.csv")) {
+		if r[1] == "ambient" {
+			continue
+		}
+		if got := val(t, r[8]); math.Abs(got-dropped[r[1]]) > 1e-9 {
+			t.Errorf("%s: dropped share %v, want %v", r[1], got, dropped[r[1]])
+		}
+	}
+	if code, _, e := runCLI("run", cs, "--drop-conductors", "1", "-o", filepath.Join(dir, "x")); code != 2 || !strings.Contains(e, "--drop-conductors") {
+		t.Errorf("--drop-conductors 1: exit %d, %q", code, e)
 	}
 }

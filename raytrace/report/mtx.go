@@ -134,17 +134,30 @@ func writeAnalysisMTX(dir string, a *analysis.Result) ([]string, error) {
 // writeNodes writes nodes.csv: the index of each node in the .mtx files
 // (1-based), its name and area, and the per-node figures of the trace
 // (empty when the view factors were given); the ambient is index N+1.
-func writeNodes(dir string, nodes []NodeSummary, traced bool) error {
+// With a conductor threshold, a last column gives each node's share of
+// emission in the dropped conductors.
+func writeNodes(dir string, nodes []NodeSummary, traced, dropped bool) error {
 	return writeCSV(filepath.Join(dir, "nodes.csv"), func(emit func(...string)) error {
-		emit("index", "node", "area_m2", "rays", "row_sum", "to_ambient", "backface_hits", "max_halfwidth")
-		for i, n := range nodes {
-			if !traced {
-				emit(fmt.Sprint(i+1), n.Name, num(n.AreaM2), "", "", "", "", "")
-				continue
-			}
-			emit(fmt.Sprint(i+1), n.Name, num(n.AreaM2), fmt.Sprint(n.Rays), num(n.RowSum), num(n.ToAmbient), fmt.Sprint(n.BackFaceHits), num(n.MaxHalfWidth))
+		head := []string{"index", "node", "area_m2", "rays", "row_sum", "to_ambient", "backface_hits", "max_halfwidth"}
+		if dropped {
+			head = append(head, "dropped_conductor_share")
 		}
-		emit(fmt.Sprint(len(nodes)+1), "ambient", "", "", "", "", "", "")
+		emit(head...)
+		line := make([]string, len(head))
+		for i, n := range nodes {
+			clear(line)
+			line[0], line[1], line[2] = fmt.Sprint(i+1), n.Name, num(n.AreaM2)
+			if traced {
+				copy(line[3:], []string{fmt.Sprint(n.Rays), num(n.RowSum), num(n.ToAmbient), fmt.Sprint(n.BackFaceHits), num(n.MaxHalfWidth)})
+			}
+			if dropped {
+				line[8] = num(n.DroppedShare)
+			}
+			emit(line...)
+		}
+		clear(line)
+		line[0], line[1] = fmt.Sprint(len(nodes)+1), "ambient"
+		emit(line...)
 		return nil
 	})
 }

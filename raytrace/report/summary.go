@@ -24,6 +24,9 @@ type NodeSummary struct {
 	BackFaceHits   int64   `json:"backface_hits"`
 	MaxHalfWidth   float64 `json:"max_halfwidth"`
 	ReciprocityErr float64 `json:"max_reciprocity_error,omitempty"`
+	// DroppedShare is the share of the node's emission in conductors left
+	// out below the threshold.
+	DroppedShare float64 `json:"dropped_conductor_share,omitempty"`
 }
 
 // MissedRow is a node whose row did not reach the half-width target.
@@ -77,6 +80,13 @@ func newSummary(in *analysis.Input, t *analysis.Traced, a *analysis.Result, warn
 	}
 	if a != nil {
 		s.Extra = analysisSummary(a)
+		defer func() {
+			if c := a.Conductors; c != nil {
+				for i := range s.Nodes {
+					s.Nodes[i].DroppedShare = c.Dropped[i]
+				}
+			}
+		}()
 	}
 	if t == nil {
 		s.RaysPerNode, s.Seed = 0, 0
@@ -111,7 +121,7 @@ func newSummary(in *analysis.Input, t *analysis.Traced, a *analysis.Result, warn
 
 // analysisSummary is what summary.json carries of an analysis.
 func analysisSummary(a *analysis.Result) map[string]any {
-	return map[string]any{
+	out := map[string]any{
 		"smoothing": map[string]any{
 			"method":             "constrained maximum likelihood (Daun, Morton & Howell 2005)",
 			"reciprocity_before": a.Smoothed.ReciprocityBefore, "reciprocity_after": a.Smoothed.ReciprocityAfter,
@@ -124,6 +134,21 @@ func analysisSummary(a *analysis.Result) map[string]any {
 		"replicates":            a.Replicates,
 		"notes":                 a.Notes,
 	}
+	if c := a.Conductors; c != nil {
+		cs := map[string]any{"method": "dense LU factorisation", "conductors": c.Kept()}
+		if !c.Dense {
+			cs["method"], cs["cg_iterations"] = "conjugate gradients per column", c.Iterations
+		}
+		if c.Threshold > 0 {
+			worst := 0.0
+			for _, d := range c.Dropped {
+				worst = max(worst, d)
+			}
+			cs["drop_below_share"], cs["max_dropped_share"] = c.Threshold, worst
+		}
+		out["conductances"] = cs
+	}
+	return out
 }
 
 // finite returns x, or nil (JSON null) when x is not a finite number.

@@ -102,7 +102,8 @@ func Write(dir string, o Outputs) ([]string, error) {
 	if err != nil {
 		return nil, err
 	}
-	if err := writeNodes(dir, sum.Nodes, o.Traced != nil); err != nil {
+	dropped := o.Analysis != nil && o.Analysis.Conductors != nil && o.Analysis.Conductors.Threshold > 0
+	if err := writeNodes(dir, sum.Nodes, o.Traced != nil, dropped); err != nil {
 		return nil, err
 	}
 	written = append(written, "nodes.csv")
