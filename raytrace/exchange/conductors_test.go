@@ -50,7 +50,7 @@ func closedSums(c *Conductors) []float64 {
 // randomEnclosure is n nodes of random areas and emissivities whose view
 // factors are reciprocal and sum with the ambient to 1: a random symmetric
 // exchange K = AF with every row below the node's area.
-func randomEnclosure(n int, seed uint64, open bool) Problem {
+func randomEnclosure(n int, seed uint64, open bool, density float64) Problem {
 	rng := rand.New(rand.NewPCG(seed, 1))
 	p := Problem{Area: make([]float64, n), Emissivity: make([]float64, n), F: make([]Row, n), Cond: make([]Condition, n)}
 	K := make([][]float64, n)
@@ -61,7 +61,7 @@ func randomEnclosure(n int, seed uint64, open bool) Problem {
 	}
 	for i := range n {
 		for j := i; j < n; j++ {
-			if rng.Float64() < 0.3 {
+			if rng.Float64() < density {
 				K[i][j] = rng.Float64()
 				K[j][i] = K[i][j]
 			}
@@ -102,7 +102,7 @@ func randomEnclosure(n int, seed uint64, open bool) Problem {
 // areas to 10⁻⁸ of a node's emission, open and closed, and both close the sum rule.
 func TestTotalExchangePathsAgree(t *testing.T) {
 	for _, open := range []bool{false, true} {
-		p := randomEnclosure(60, 7, open)
+		p := randomEnclosure(60, 7, open, 0.3)
 		c := bothPaths(t, p)
 		d, it := c[0], c[1]
 		for i := range d.Lower {
@@ -130,7 +130,7 @@ func TestTotalExchangePathsAgree(t *testing.T) {
 // Dropping: exactly the conductors negligible to both nodes go, their share
 // is reported per node, and the sum rule still closes.
 func TestTotalExchangeThreshold(t *testing.T) {
-	p := randomEnclosure(60, 3, true)
+	p := randomEnclosure(60, 3, true, 0.3)
 	full, err := TotalExchange(p.Area, p.Emissivity, p.F, p.Ambient, 0)
 	if err != nil {
 		t.Fatal(err)
@@ -170,6 +170,30 @@ func TestTotalExchangeThreshold(t *testing.T) {
 		for i, s := range closedSums(c) {
 			near(t, fmt.Sprintf("dropped share %d", i), c.Dropped[i], dropped[i], 1e-9)
 			near(t, fmt.Sprintf("sum %d", i), s+c.Dropped[i]*p.Emissivity[i]*p.Area[i], p.Emissivity[i]*p.Area[i], 1e-9)
+		}
+	}
+}
+
+// BenchmarkTotalExchange: 1,500 nodes with 1 % and 10 % of pairs in view,
+// by the dense factorisation and by conjugate gradients.
+func BenchmarkTotalExchange(b *testing.B) {
+	for _, density := range []float64{0.01, 0.1} {
+		p := randomEnclosure(1500, 1, true, density)
+		for _, dense := range []bool{true, false} {
+			b.Run(fmt.Sprintf("density=%g/dense=%v", density, dense), func(b *testing.B) {
+				if !dense {
+					denseLimit = 0
+					defer func() { denseLimit = DenseLimit }()
+				}
+				var c *Conductors
+				for b.Loop() {
+					var err error
+					if c, err = TotalExchange(p.Area, p.Emissivity, p.F, p.Ambient, 0); err != nil {
+						b.Fatal(err)
+					}
+				}
+				b.ReportMetric(float64(c.Iterations), "iterations")
+			})
 		}
 	}
 }

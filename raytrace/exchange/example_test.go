@@ -25,3 +25,24 @@ func ExampleSolve() {
 
 	// Output: heater 467.5 K, cold plate takes 1000 W
 }
+
+// The radiative conductance between two long concentric cylinders (radii
+// 0.1 m and 0.25 m, per metre of length; the inner sees only the outer,
+// F21 = r1/r2): σA1ℱ12 with A1ℱ12 = A1/(1/ε1 + (A1/A2)(1/ε2 − 1))
+// (Incropera & DeWitt, the two-surface enclosure).
+func ExampleTotalExchange() {
+	a1, a2 := 2*3.141592653589793*0.1, 2*3.141592653589793*0.25
+	c, err := exchange.TotalExchange(
+		[]float64{a1, a2}, []float64{0.6, 0.9},
+		[]exchange.Row{{Col: []int32{1}, Val: []float64{1}}, {Col: []int32{0, 1}, Val: []float64{0.4, 0.6}}},
+		nil, 0)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	s := c.Lower[1].At(0)
+	fmt.Printf("A1ℱ12 = %.4f m², conductance %.4g W/K⁴\n", s, exchange.Sigma*s)
+	// A1ℱ12 = 0.6283/(1/0.6 + 0.4·(1/0.9 − 1)) = 0.6283/1.7111 = 0.3672 m².
+
+	// Output: A1ℱ12 = 0.3672 m², conductance 2.082e-08 W/K⁴
+}
