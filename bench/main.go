@@ -43,6 +43,7 @@ func main() {
 	scaleRays := flag.Int64("scale-rays", 1000, "with -scale: rays per node")
 	scaleDrop := flag.Float64("scale-drop", 0, "with -scale: drop conductors below this share of both nodes' emission")
 	scalePer := flag.Int("scale-per", 100, "with -scale: facets per node")
+	scaleOnce := flag.Bool("scale-once", false, "with -scale: only on -threads threads, not also on 1")
 	flag.Parse()
 	if *scale {
 		var rs []scaleResult
@@ -58,7 +59,11 @@ func main() {
 			if err != nil {
 				log.Fatal(err)
 			}
-			for _, th := range []int{1, *threads} {
+			counts := []int{1, *threads}
+			if *scaleOnce {
+				counts = []int{*threads}
+			}
+			for _, th := range counts {
 				r, err := runScale(w.name, m, w.per, *scaleRays, th, *scaleDrop)
 				if err != nil {
 					log.Fatalf("%s: %v", w.name, err)

@@ -18,7 +18,10 @@
 //
 //	D(λ) = Σ λ_i A_i − Σ_{i<j} c_ij ln(λ_i + λ_j) − Σ_i (k_ii + k_i,amb) ln λ_i,
 //
-// whose gradient is the summation residual A_i − Σ_j s_ij − s_i,amb. Smooth
+// whose gradient is the summation residual A_i − Σ_j s_ij − s_i,amb, over
+// the domain where every logarithm is defined: λ_i > 0 only for nodes with
+// self or ambient counts, λ_i + λ_j > 0 for every pair seen (a large node
+// whose rays land on small ones has its optimum at λ_i < 0). Smooth
 // minimises D by Newton's method with a backtracking line search, solving
 // each Newton system by conjugate gradients on the sparse Hessian, so that
 // facet-level matrices are within reach. Pairs with no hits stay exactly

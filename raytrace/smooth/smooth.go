@@ -50,7 +50,7 @@ type NodeError struct {
 func (e *NodeError) Error() string { return fmt.Sprintf("smooth: node %d: %s", e.Node, e.Msg) }
 
 // ErrNotConverged is returned when Newton's method fails to meet the tolerance.
-var ErrNotConverged = errors.New("smooth: Newton iteration did not converge")
+var ErrNotConverged = errors.New("smooth: Newton iteration did not converge (with few rays per node among many nodes, the pairs seen may admit no reciprocal matrix whose rows sum to 1: trace more rays per node, or make fewer, larger nodes)")
 
 // pair is an unordered node pair i < j (or i == j) with its pooled count.
 type pair struct {
@@ -136,20 +136,29 @@ func mergeRows(a, b *CountRow, fn func(j int32, ka, kb int64)) {
 	}
 }
 
-// dual returns D(λ), or +Inf outside λ > 0.
+// dual returns D(λ), or +Inf outside its domain: λ_i > 0 where node i has
+// self or ambient counts (log λ_i), λ_i + λ_j > 0 for every pair seen. A
+// node with neither may take λ_i ≤ 0: a large node whose rays land on
+// small ones needs it (its s_ij = c_ij/(λ_i + λ_j) must sum to its large
+// area while each partner's λ_j is held high by its own small sum), and in
+// fine splits of 10⁴ nodes the optimum lies there.
 func dual(lam, area []float64, offd []pair, diagC []float64) float64 {
 	d := 0.0
 	for i, l := range lam {
-		if !(l > 0) {
-			return math.Inf(1)
-		}
 		d += l * area[i]
 		if diagC[i] > 0 {
+			if !(l > 0) {
+				return math.Inf(1)
+			}
 			d -= diagC[i] * math.Log(l)
 		}
 	}
 	for _, p := range offd {
-		d -= p.c * math.Log(lam[p.i]+lam[p.j])
+		s := lam[p.i] + lam[p.j]
+		if !(s > 0) {
+			return math.Inf(1)
+		}
+		d -= p.c * math.Log(s)
 	}
 	return d
 }

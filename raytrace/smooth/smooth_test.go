@@ -254,3 +254,34 @@ func BenchmarkSmooth(b *testing.B) {
 		}
 	}
 }
+
+// A large node whose rays land only on two smaller ones, each of which
+// also loses rays to the ambient: node 0 (area 1.9) sees nodes 1 and 2
+// (area 1 each). Reciprocity and summation alone fix the answer here:
+// by symmetry A_0F_01 = A_0F_02 = 1.9/2 = 0.95, so F_01 = 0.5, F_10 = 0.95
+// and F_1,amb = 0.05, whatever the counts (hand calculation from the
+// constraints). The optimum has a negative multiplier for node 0
+// (λ_0 = 140/0.95 − 200), which a solver held to λ > 0 cannot reach.
+func TestSmoothLargeNodeOnSmallOnes(t *testing.T) {
+	c := Counts{
+		Area:    []float64{1.9, 1, 1},
+		Rays:    []int64{100, 100, 100},
+		Hits:    []CountRow{{Col: []int32{1, 2}, Val: []int64{50, 50}}, {Col: []int32{0}, Val: []int64{90}}, {Col: []int32{0}, Val: []int64{90}}},
+		Ambient: []int64{0, 10, 10},
+	}
+	r, err := Smooth(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, x := range []struct {
+		name      string
+		got, want float64
+	}{
+		{"F01", r.F[0].At(1), 0.5}, {"F02", r.F[0].At(2), 0.5},
+		{"F10", r.F[1].At(0), 0.95}, {"F1amb", r.Ambient[1], 0.05}, {"F0amb", r.Ambient[0], 0},
+	} {
+		if math.Abs(x.got-x.want) > 1e-12 {
+			t.Errorf("%s = %v, want %v", x.name, x.got, x.want)
+		}
+	}
+}
