@@ -36,6 +36,7 @@ type traceFlags struct {
 	noPictures      bool
 	csv             string
 	dropConductors  float64
+	noConductances  bool
 }
 
 // newTraceFlags returns the flags with their defaults, registered or not.
@@ -79,6 +80,7 @@ func (tf *traceFlags) register(fs *flag.FlagSet, groups int) {
 		fs.BoolVar(&tf.quiet, "quiet", false, "no progress output")
 		fs.BoolVar(&tf.noPictures, "no-pictures", false, "do not write the PNG pictures and model.vtp")
 		fs.StringVar(&tf.csv, "csv", "", "all, or compact: no per-pair CSVs and no tallies.csv, the .mtx files carry the matrices (default: the case's output.csv, else all)")
+		fs.BoolVar(&tf.noConductances, "no-conductances", false, "(run, solve) skip the conductances: their cost grows as nodes × view-factor entries (default: the case's output.conductances, else written)")
 		fs.Float64Var(&tf.dropConductors, "drop-conductors", 0, "leave out conductors below this share of both nodes' emission, e.g. 1e-6 (default: the case's output.drop_conductors, else 0: keep all)")
 	}
 }
@@ -160,6 +162,10 @@ func loadInput(fs *flag.FlagSet, tf *traceFlags, args []string) (*job, error) {
 		return nil, usagef("--csv %q: give all or compact", csv)
 	}
 	j.compact = csv == "compact"
+	if tf.noConductances && j.in.Case != nil {
+		no := false
+		j.in.Case.Output.Conductances = &no
+	}
 	if set["drop-conductors"] {
 		if !(tf.dropConductors >= 0 && tf.dropConductors < 1) {
 			return nil, usagef("--drop-conductors %v: give a share in [0, 1)", tf.dropConductors)

@@ -415,4 +415,13 @@ func TestDropConductors(t *testing.T) {
 	if code, _, e := runCLI("run", cs, "--drop-conductors", "1", "-o", filepath.Join(dir, "x")); code != 2 || !strings.Contains(e, "--drop-conductors") {
 		t.Errorf("--drop-conductors 1: exit %d, %q", code, e)
 	}
+	none := filepath.Join(dir, "none")
+	if code, _, e := runCLI("run", cs, "--rays", "3000", "--quiet", "--no-pictures", "--no-conductances", "-o", none); code != 0 {
+		t.Fatal(e)
+	}
+	for _, f := range []string{"conductances.csv", "conductances.mtx"} {
+		if _, err := os.Stat(filepath.Join(none, f)); err == nil {
+			t.Errorf("--no-conductances wrote %s", f)
+		}
+	}
 }

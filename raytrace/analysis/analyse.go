@@ -122,7 +122,7 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 		switch {
 		case k == 0:
 			sols[0], errs[0] = exchange.Solve(p)
-		case k == 1:
+		case k == 1 && (in.Case.Output.Conductances == nil || *in.Case.Output.Conductances):
 			a.Conductors, errs[1] = exchange.TotalExchange(p.Area, p.Emissivity, p.F, p.Ambient, in.Case.Output.DropConductors)
 		case k >= 2:
 			pr, _, err := problem(in.Case, in.Mesh, nodes, reps[k-2], open)
@@ -139,6 +139,9 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 		return nil, nameNode(errs[1], nodes, nil)
 	}
 	a.Solution = sols[0]
+	if a.Conductors == nil {
+		a.Notes = append(a.Notes, "conductances skipped (output.conductances = false or --no-conductances)")
+	}
 	var Ts, Qs [][]float64
 	for r := range reps {
 		if err := errs[2+r]; err != nil {

@@ -75,6 +75,10 @@ type OutputSpec struct {
 	// (0, the default, keeps all); each node's dropped share goes to
 	// nodes.csv.
 	DropConductors float64 `toml:"drop_conductors"`
+	// Conductances false skips the total exchange areas and the
+	// conductance files: their cost grows as nodes × entries of F, an hour
+	// and more for 10⁴ nodes that all see each other.
+	Conductances *bool `toml:"conductances"`
 }
 
 // SurfaceSpec is the settings of one node (or the defaults). Unset values
