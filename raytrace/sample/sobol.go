@@ -101,7 +101,7 @@ func (s Sobol) Point(i uint64, u *[SobolDims]float64) {
 	for d := range SobolDims {
 		h := Mix(block + uint64(d+1)*golden)
 		x := nestedScramble(sobol(uint32(i), d), uint32(h))
-		low := Mix(h ^ i) >> 43 // 21 bits
+		low := Mix(h^i) >> 43 // 21 bits
 		u[d] = (float64(x)*0x1p21 + float64(low)) * 0x1p-53
 	}
 }
