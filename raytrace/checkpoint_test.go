@@ -17,6 +17,16 @@ func baseOpts() Options {
 
 // Shards 1/1 … 7/7 merged give exactly the single run's tallies.
 func TestShardsMergeExactly(t *testing.T) {
+	for _, sampling := range []string{SamplingMC, SamplingRQMC} {
+		t.Run(sampling, func(t *testing.T) {
+			base := baseOpts
+			baseOpts := func() Options { o := base(); o.Sampling = sampling; return o }
+			shardsMergeExactly(t, baseOpts)
+		})
+	}
+}
+
+func shardsMergeExactly(t *testing.T, baseOpts func() Options) {
 	m := ReferenceCases()[1].Mesh
 	single, err := Estimate(context.Background(), m, baseOpts())
 	if err != nil {

@@ -57,25 +57,33 @@ func newNodeEmitter(n *Node, area []float64) nodeEmitter {
 	return e
 }
 
-// rays fills qs (at most chunk long) with the node's next len(qs) rays
-// from st: for each, a facet by area, a uniform point on it, a
-// cosine-weighted direction about the emitting side's normal, and the
-// origin moved off the facet's plane to that side. Ray k uses the stream's
-// numbers 5k … 5k+4 whatever the batch length.
-//
-// It works in passes over the batch (draw the numbers and prefetch the
-// alias entries; pick the facets and prefetch their emitter data; build
-// the rays) so that on a model larger than the caches the misses of all
-// rays overlap instead of stalling each ray in turn.
-func (e *nodeEmitter) rays(st *sample.Stream, em []facetEmitter, qs []bvh.Query) {
-	var u [chunk][numbersPerRay]float64
-	qs = qs[:min(len(qs), chunk)]
-	multi := e.pick.Len() > 0
-	for k := range qs {
+// numbers are the uniform numbers of up to chunk rays: per ray the facet
+// pick, two for the point and two for the direction.
+type numbers [chunk][numbersPerRay]float64
+
+// draw fills u[:n] from st: ray k takes the stream's numbers 5k … 5k+4.
+func (u *numbers) draw(st *sample.Stream, n int) {
+	for k := range n {
 		for j := range numbersPerRay {
 			u[k][j] = st.Float64()
 		}
-		if multi {
+	}
+}
+
+// rays fills qs (at most chunk long) with the node's rays for the numbers
+// u: for each, a facet by area, a uniform point on it, a cosine-weighted
+// direction about the emitting side's normal, and the origin moved off the
+// facet's plane to that side.
+//
+// It works in passes over the batch (prefetch the alias entries; pick the
+// facets and prefetch their emitter data; build the rays) so that on a
+// model larger than the caches the misses of all rays overlap instead of
+// stalling each ray in turn.
+func (e *nodeEmitter) rays(u *numbers, em []facetEmitter, qs []bvh.Query) {
+	qs = qs[:min(len(qs), chunk)]
+	multi := e.pick.Len() > 0
+	if multi {
+		for k := range qs {
 			e.pick.Prefetch(u[k][0])
 		}
 	}

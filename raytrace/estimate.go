@@ -131,7 +131,7 @@ func Estimate(ctx context.Context, m *mesh.Mesh, opts Options) (*Result, error) 
 		Nodes: nm.nodes, Tally: *newTally(len(nm.nodes)), Options: opts,
 		Replicas:     make([]Tally, opts.Replicates),
 		BuildSeconds: tree.Stats.BuildTime.Seconds(), Threads: opts.Threads,
-		z: zScore(opts.Confidence),
+		z: zScore(opts.Confidence), t: tScore(opts),
 	}
 	for k := range r.Replicas {
 		r.Replicas[k] = *newTally(len(nm.nodes))
@@ -388,9 +388,11 @@ func (e *engine) run(ctx context.Context, units []unit, out *Result) error {
 // chunk is how many rays are generated and traced together.
 const chunk = 64
 
-// trace runs one unit. Its rays use stream (seed, node, batch) from offset
-// (lo mod batch)·numbersPerRay, so any worker produces the same numbers;
-// ray r is tallied in replicate r mod reps.
+// trace runs one unit. Ray r of the node is tallied in replicate
+// r mod reps. With plain Monte Carlo its numbers come from stream (seed,
+// node, r / batch) at offset (r mod batch)·numbersPerRay; with RQMC it is
+// point r / reps of replicate r mod reps's scrambled Sobol' sequence. Either
+// way any worker produces the same numbers.
 func (e *engine) trace(ctx context.Context, u unit, s []*scratch, b *bvh.Batch) (unitResult, error) {
 	batch := e.opts.BatchSize
 	st := sample.NewStream(e.opts.Seed, int64(u.Node), u.Lo/batch)
@@ -398,7 +400,15 @@ func (e *engine) trace(ctx context.Context, u unit, s []*scratch, b *bvh.Batch) 
 	ne := &e.nodeEm[u.Node]
 	var qs [chunk]bvh.Query
 	var hs [chunk]bvh.Hit
+	var nums numbers
 	reps := int64(len(s))
+	var sobol []sample.Sobol
+	if e.opts.Sampling == SamplingRQMC {
+		sobol = make([]sample.Sobol, reps)
+		for q := range sobol {
+			sobol[q] = sample.NewSobol(e.opts.Seed, int64(u.Node), q)
+		}
+	}
 	res := unitResult{u: u, rays: make([]int64, reps), escaped: make([]int64, reps), hits: make([]Row, reps), backHit: make([]Row, reps)}
 	front, back, surf := e.nm.front, e.nm.back, e.m.SurfaceOf
 	for lo := u.Lo; lo < u.Hi; lo += chunk {
@@ -409,7 +419,15 @@ func (e *engine) trace(ctx context.Context, u unit, s []*scratch, b *bvh.Batch) 
 			return res, err
 		}
 		n := int(min(chunk, u.Hi-lo))
-		ne.rays(&st, e.em, qs[:n])
+		if sobol != nil {
+			for k := range n {
+				r := lo + int64(k)
+				sobol[r%reps].Point(uint64(r/reps), &nums[k])
+			}
+		} else {
+			nums.draw(&st, n)
+		}
+		ne.rays(&nums, e.em, qs[:n])
 		e.tree.IntersectBatch(b, qs[:n], hs[:n])
 		for k := range n {
 			h := &hs[k]

@@ -90,16 +90,18 @@ func TestClosedEnclosure(t *testing.T) {
 // another batch split of the work.
 func TestDeterminism(t *testing.T) {
 	m := ReferenceCases()[1].Mesh
-	var got []*Result
-	for _, th := range []int{1, 3} {
-		r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 30000, Seed: 9, BatchSize: 4096}, Threads: th})
-		if err != nil {
-			t.Fatal(err)
+	for _, sampling := range []string{SamplingMC, SamplingRQMC} {
+		var got []*Result
+		for _, th := range []int{1, 3} {
+			r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 30000, Seed: 9, BatchSize: 4096, Sampling: sampling}, Threads: th})
+			if err != nil {
+				t.Fatal(err)
+			}
+			got = append(got, r)
 		}
-		got = append(got, r)
-	}
-	if !reflect.DeepEqual(got[0].Tally, got[1].Tally) {
-		t.Errorf("tallies differ between 1 and 3 threads:\n%+v\n%+v", got[0].Tally, got[1].Tally)
+		if !reflect.DeepEqual(got[0].Tally, got[1].Tally) || !reflect.DeepEqual(got[0].Replicas, got[1].Replicas) {
+			t.Errorf("%s: tallies differ between 1 and 3 threads:\n%+v\n%+v", sampling, got[0].Tally, got[1].Tally)
+		}
 	}
 }
 
@@ -326,5 +328,56 @@ func TestProgressReportsWorstHalfWidth(t *testing.T) {
 	}
 	if w := r.worst(); last.WorstHalfWidth != w || w <= 0.001 || last.ToTarget <= 0 {
 		t.Errorf("last progress %+v; the result's widest half-width %v", last, w)
+	}
+}
+
+// With RQMC sampling the intervals come from the replicates (Student-t):
+// over 400 seeds, 95 % intervals must contain the exact value 92–98 % of
+// the time (±2.7 binomial standard deviations), for a moderate factor and for small ones (closed forms:
+// Howell's catalogue C-11, parallel opposed rectangles, and C-14,
+// perpendicular rectangles with a common edge; flat squares meshed
+// exactly).
+func TestRQMCIntervalCoverage(t *testing.T) {
+	v := func(x, y, z float64) geometry.Vec3 { return geometry.Vec3{X: x, Y: y, Z: z} }
+	opposed := func(h float64) *mesh.Mesh {
+		m := mesh.Rectangle("bottom", v(0, 0, 0), v(1, 0, 0), v(0, 1, 0), 1, 1)
+		if err := m.Append(mesh.Rectangle("top", v(0, 0, h), v(0, 1, 0), v(1, 0, 0), 1, 1)); err != nil {
+			t.Fatal(err)
+		}
+		return m
+	}
+	perpendicular := mesh.Rectangle("bottom", v(0, 0, 0), v(1, 0, 0), v(0, 1, 0), 1, 1)
+	if err := perpendicular.Append(mesh.Rectangle("top", v(0, 0, 0), v(0, 1, 0), v(0, 0, 1), 1, 1)); err != nil {
+		t.Fatal(err)
+	}
+	cases := []struct {
+		name  string
+		m     *mesh.Mesh
+		exact float64
+		rays  int64
+	}{
+		{"opposed squares, unit distance", opposed(1), geometry.FParallelRectangles(1, 1, 1), 4000},
+		{"perpendicular squares", perpendicular, geometry.FPerpendicularRectangles(1, 1, 1), 4000},
+		{"opposed squares, distance 4 (F ≈ 0.018)", opposed(4), geometry.FParallelRectangles(1, 1, 4), 4000},
+		{"opposed squares, distance 10 (F ≈ 0.003)", opposed(10), geometry.FParallelRectangles(1, 1, 10), 16000},
+	}
+	const runs = 400
+	for _, c := range cases {
+		covered := 0
+		for seed := range uint64(runs) {
+			r, err := Estimate(context.Background(), c.m, Options{Settings: Settings{Rays: c.rays, Seed: seed + 7000, Sampling: SamplingRQMC}})
+			if err != nil {
+				t.Fatal(err)
+			}
+			f := r.Factor(r.NodeIndex("bottom"), r.NodeIndex("top"))
+			if f.Lo <= c.exact && c.exact <= f.Hi {
+				covered++
+			}
+		}
+		if cov := float64(covered) / runs; cov < 0.92 || cov > 0.98 {
+			t.Errorf("%s: coverage %.3f over %d seeds, want 0.92–0.98", c.name, cov, runs)
+		} else {
+			t.Logf("%s: coverage %.3f", c.name, cov)
+		}
 	}
 }

@@ -38,7 +38,10 @@ func NewRaySource(m *mesh.Mesh) (*RaySource, error) {
 // Rays fills qs with the next len(qs) rays of st. Each ray skips its own
 // facet (Query.Skip is the emitting facet).
 func (r *RaySource) Rays(st *sample.Stream, qs []bvh.Query) {
+	var u numbers
 	for lo := 0; lo < len(qs); lo += chunk {
-		r.ne.rays(st, r.em, qs[lo:min(lo+chunk, len(qs))])
+		n := min(chunk, len(qs)-lo)
+		u.draw(st, n)
+		r.ne.rays(&u, r.em, qs[lo:lo+n])
 	}
 }

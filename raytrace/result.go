@@ -24,15 +24,16 @@ type Result struct {
 	TraceSeconds float64
 	Threads      int
 	z            float64
+	t            float64  // Student's t quantile for replicate intervals (RQMC)
 	done         []UnitID // finished work units
 }
 
 // Factor is one view-factor estimate.
 type Factor struct {
 	F         float64 // hits / rays
-	StdErr    float64 // √(F(1−F)/rays)
-	Lo, Hi    float64 // Wilson interval at the result's confidence
-	HalfWidth float64 // (Hi − Lo)/2
+	StdErr    float64 // √(F(1−F)/rays); with RQMC, s/√R of the replicates
+	Lo, Hi    float64 // Wilson interval; with RQMC, F ∓ HalfWidth within [0, 1]
+	HalfWidth float64 // (Hi − Lo)/2; with RQMC, t·s/√R
 	Hits      int64
 	Rays      int64
 }
@@ -81,20 +82,58 @@ func (r *Result) factor(k, n int64) Factor {
 // gives the fraction of i's rays that left the model.
 func (r *Result) Factor(i, j int) Factor {
 	if j == r.Ambient() {
-		return r.factor(r.Escaped[i], r.Rays[i])
+		return r.replicated(i, j, r.factor(r.Escaped[i], r.Rays[i]))
 	}
-	return r.factor(r.Hits[i].At(int32(j)), r.Rays[i])
+	return r.replicated(i, j, r.factor(r.Hits[i].At(int32(j)), r.Rays[i]))
 }
 
 // Row calls fn for every non-zero entry of row i, ambient last.
 func (r *Result) Row(i int, fn func(j int, f Factor)) {
 	row := &r.Hits[i]
 	for k, c := range row.Col {
-		fn(int(c), r.factor(row.Val[k], r.Rays[i]))
+		fn(int(c), r.replicated(i, int(c), r.factor(row.Val[k], r.Rays[i])))
 	}
 	if r.Escaped[i] > 0 {
-		fn(r.Ambient(), r.factor(r.Escaped[i], r.Rays[i]))
+		fn(r.Ambient(), r.replicated(i, r.Ambient(), r.factor(r.Escaped[i], r.Rays[i])))
 	}
+}
+
+// replicated replaces the binomial interval of f (F_ij) by the Student-t
+// interval of the replicates' estimates when the rays were RQMC points:
+// the points of one randomization are correlated, so the binomial law
+// does not hold, but independent randomizations give independent,
+// unbiased estimates F^(q) = k^(q)/N^(q), and
+//
+//	half-width = t_{R−1}·s/√R,  s² = Σ_q (F^(q) − F̄)²/(R − 1)
+//
+// (Owen, "Monte Carlo theory, methods and examples", 2013, the chapter on
+// randomized QMC; L'Ecuyer & Lemieux 2002; from memory). An entry no
+// replicate hit keeps its Wilson interval [0, z²/(N+z²)]: the spread of
+// zeros is no evidence of precision.
+func (r *Result) replicated(i, j int, f Factor) Factor {
+	R := len(r.Replicas)
+	if r.Options.Sampling != SamplingRQMC || R < 2 || f.Hits == 0 {
+		return f
+	}
+	var sum, sum2 float64
+	for q := range r.Replicas {
+		t := &r.Replicas[q]
+		if t.Rays[i] == 0 {
+			return f // too few rays yet for every replicate
+		}
+		k := t.Escaped[i]
+		if j != r.Ambient() {
+			k = t.Hits[i].At(int32(j))
+		}
+		x := float64(k) / float64(t.Rays[i])
+		sum, sum2 = sum+x, sum2+x*x
+	}
+	mean := sum / float64(R)
+	s2 := max(0, (sum2-float64(R)*mean*mean)/float64(R-1))
+	f.StdErr = math.Sqrt(s2 / float64(R))
+	f.HalfWidth = r.t * f.StdErr
+	f.Lo, f.Hi = max(0, f.F-f.HalfWidth), min(1, f.F+f.HalfWidth)
+	return f
 }
 
 // RowHalfWidth returns the largest interval half-width in row i, zero
@@ -234,7 +273,7 @@ func NewResult(nodes []Node, t Tally, replicas []Tally, opts Options) (*Result, 
 	if err := opts.defaults(); err != nil {
 		return nil, err
 	}
-	return &Result{Nodes: nodes, Tally: t, Replicas: replicas, Options: opts, Threads: opts.Threads, z: zScore(opts.Confidence)}, nil
+	return &Result{Nodes: nodes, Tally: t, Replicas: replicas, Options: opts, Threads: opts.Threads, z: zScore(opts.Confidence), t: tScore(opts)}, nil
 }
 
 // Missed is a node whose row did not reach the HalfWidth target.

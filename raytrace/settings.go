@@ -12,7 +12,22 @@ import (
 // SettingsVersion is the version of the Settings layout and of the way a
 // run turns them into rays. It is stored with every tally file; tallies of
 // another version are refused rather than mixed.
-const SettingsVersion = 2
+const SettingsVersion = 3
+
+// Sampling methods: how a node's rays draw their numbers.
+const (
+	// SamplingMC draws every number independently (plain Monte Carlo):
+	// intervals from the binomial law of the pooled counts.
+	SamplingMC = "mc"
+	// SamplingRQMC takes each replicate's rays from its own scrambled
+	// Sobol' sequence (randomized quasi-Monte Carlo): intervals from the
+	// spread of the replicates (Student-t).
+	SamplingRQMC = "rqmc"
+)
+
+// DefaultReplicates is the number of replicates when intervals come from
+// them (RQMC sampling, and the run command's heat-flow intervals).
+const DefaultReplicates = 8
 
 // Settings are everything that fixes the tallies of a run besides the mesh
 // files' bytes: how the mesh was read, which nodes it has, and how rays are
@@ -63,6 +78,8 @@ type Settings struct {
 	// independent sub-samples (ray r of a node belongs to replicate r mod
 	// Replicates), for replicate-based intervals on derived results.
 	Replicates int `json:"replicates"`
+	// Sampling is SamplingMC or SamplingRQMC (the default).
+	Sampling string `json:"sampling"`
 	// BatchSize is the number of rays per random stream and work unit.
 	// Changing it changes the numbers. Default 65,536.
 	BatchSize int64 `json:"batch_size"`
@@ -87,6 +104,12 @@ func (s Settings) WithDefaults() Settings {
 	}
 	if s.BatchSize == 0 {
 		s.BatchSize = DefaultBatchSize
+	}
+	if s.Sampling == "" {
+		s.Sampling = SamplingMC
+	}
+	if s.Sampling == SamplingRQMC && s.Replicates == 0 {
+		s.Replicates = DefaultReplicates
 	}
 	s.TwoSided = sortedCopy(s.TwoSided)
 	s.Flipped = sortedCopy(s.Flipped)
@@ -115,6 +138,10 @@ func (s Settings) Check() error {
 		return fmt.Errorf("batch_size %d is outside [64, 2^30]", s.BatchSize)
 	case s.Replicates < 0 || s.Replicates == 1 || s.Replicates > 1024:
 		return fmt.Errorf("replicates %d: use 0 (none) or 2 to 1024", s.Replicates)
+	case s.Sampling != SamplingMC && s.Sampling != SamplingRQMC:
+		return fmt.Errorf("sampling %q: use %q or %q", s.Sampling, SamplingRQMC, SamplingMC)
+	case s.Sampling == SamplingRQMC && s.Replicates < 2:
+		return fmt.Errorf("sampling %q takes its intervals from replicates: give at least 2", s.Sampling)
 	}
 	return nil
 }

@@ -1,10 +1,24 @@
 package raytrace
 
-import "math"
+import (
+	"math"
+
+	"gonum.org/v1/gonum/stat/distuv"
+)
 
 // zScore returns the two-sided standard-normal quantile for confidence c
 // (0.95 → 1.959964): √2·erf⁻¹(c).
 func zScore(c float64) float64 { return math.Sqrt2 * math.Erfinv(c) }
+
+// tScore returns the two-sided quantile of Student's t with R − 1 degrees
+// of freedom at o's confidence, for intervals from R replicates (0 without
+// replicates).
+func tScore(o Options) float64 {
+	if o.Replicates < 2 {
+		return 0
+	}
+	return distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(o.Replicates - 1)}.Quantile(0.5 + o.Confidence/2)
+}
 
 // Wilson returns the Wilson score interval for k successes in n trials at
 // standard-normal quantile z (Wilson 1927; Brown, Cai & DasGupta,

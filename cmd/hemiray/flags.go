@@ -22,6 +22,7 @@ type traceFlags struct {
 	maxRays    int64
 	confidence float64
 	seed       uint64
+	sampling   string
 	threads    int
 	facets     bool
 	twoSided   string
@@ -66,6 +67,7 @@ func (tf *traceFlags) register(fs *flag.FlagSet, groups int) {
 		fs.Float64Var(&tf.confidence, "confidence", tf.confidence, "confidence level of the intervals")
 		fs.Uint64Var(&tf.seed, "seed", tf.seed, "random seed: the same seed gives the same numbers")
 		fs.BoolVar(&tf.facets, "facets", false, "make every facet its own node")
+		fs.StringVar(&tf.sampling, "sampling", "", "rqmc: scrambled Sobol' points per replicate, intervals from the replicates; mc: independent random numbers, binomial intervals (default: the case's rays.sampling, else mc)")
 	}
 	if groups&runFlags != 0 {
 		fs.IntVar(&tf.threads, "threads", tf.threads, "worker threads (results do not depend on it)")
@@ -140,7 +142,7 @@ func loadInput(fs *flag.FlagSet, tf *traceFlags, args []string) (*job, error) {
 	for name, apply := range map[string]func(){
 		"rays": func() { s.Rays = tf.rays }, "halfwidth": func() { s.HalfWidth = tf.halfWidth },
 		"max-rays": func() { s.MaxRays = tf.maxRays }, "confidence": func() { s.Confidence = tf.confidence },
-		"seed": func() { s.Seed = tf.seed }, "facets": func() { s.FacetNodes = tf.facets }, "o": func() { j.run.Dir = tf.out },
+		"seed": func() { s.Seed = tf.seed }, "facets": func() { s.FacetNodes = tf.facets }, "sampling": func() { s.Sampling = tf.sampling }, "o": func() { j.run.Dir = tf.out },
 	} {
 		if set[name] {
 			apply()

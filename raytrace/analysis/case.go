@@ -56,6 +56,7 @@ type RaySpec struct {
 	Confidence float64 `toml:"confidence"`
 	Facets     bool    `toml:"facets"`
 	Replicates int     `toml:"replicates"`
+	Sampling   string  `toml:"sampling"` // "rqmc" or "mc"
 }
 
 // AmbientSpec is the blackbody surroundings that escaping rays reach.
@@ -97,7 +98,7 @@ type SurfaceSpec struct {
 
 // DefaultReplicates is the number of replicates for heat-flow intervals
 // when a case does not set rays.replicates.
-const DefaultReplicates = 8
+const DefaultReplicates = raytrace.DefaultReplicates
 
 // KeyError is a problem with one key of a case; Key is its path, e.g.
 // ["surfaces", "board", "emissivity"] (a table when the last part names one).
@@ -138,6 +139,8 @@ func (c *Case) Validate() error {
 		return keyErr([]string{"rays", "halfwidth"}, "halfwidth %v is not in (0, 0.5)", r.HalfWidth)
 	case !(r.Confidence >= 0 && r.Confidence < 1):
 		return keyErr([]string{"rays", "confidence"}, "confidence %v is not in (0, 1)", r.Confidence)
+	case r.Sampling != "" && r.Sampling != raytrace.SamplingRQMC && r.Sampling != raytrace.SamplingMC:
+		return keyErr([]string{"rays", "sampling"}, "sampling is %q; use %q or %q", r.Sampling, raytrace.SamplingRQMC, raytrace.SamplingMC)
 	case r.Replicates < 0 || r.Replicates == 1:
 		return keyErr([]string{"rays", "replicates"}, "replicates must be 0 (the default, %d) or at least 2", DefaultReplicates)
 	}
@@ -251,7 +254,7 @@ func (c *Case) Settings(surfaces []string) raytrace.Settings {
 	s := raytrace.Settings{
 		Units: c.Model.Units, GroupByMaterial: c.Model.GroupBy == "material", Names: c.Model.Names, Rename: c.Model.Rename,
 		FacetNodes: r.Facets, Rays: r.PerNode, HalfWidth: r.HalfWidth, MaxRays: r.MaxPerNode,
-		Seed: r.Seed, Confidence: r.Confidence, Replicates: r.Replicates, NodeMap: c.Model.NodeMap,
+		Seed: r.Seed, Confidence: r.Confidence, Replicates: r.Replicates, NodeMap: c.Model.NodeMap, Sampling: r.Sampling,
 	}
 	if s.Seed == 0 {
 		s.Seed = 1
