@@ -44,7 +44,21 @@ func main() {
 	scaleDrop := flag.Float64("scale-drop", 0, "with -scale: drop conductors below this share of both nodes' emission")
 	scalePer := flag.Int("scale-per", 100, "with -scale: facets per node")
 	scaleOnce := flag.Bool("scale-once", false, "with -scale: only on -threads threads, not also on 1")
+	accuracy := flag.Bool("accuracy", false, "instead: rays per node to a 0.001 half-width on four closed-form configurations, plain Monte Carlo against RQMC, and the cluttered room")
+	seeds := flag.Int("seeds", 24, "with -accuracy: independent runs per point")
 	flag.Parse()
+	if *accuracy {
+		rs, err := raysToTarget(0.001, *seeds)
+		if err != nil {
+			log.Fatal(err)
+		}
+		worst, all, err := roomRatio(1<<14, *seeds)
+		if err != nil {
+			log.Fatal(err)
+		}
+		printAccuracy(rs, worst, all)
+		return
+	}
 	if *scale {
 		var rs []scaleResult
 		for _, w := range []struct {

@@ -61,7 +61,8 @@ type Progress struct {
 	Elapsed time.Duration
 	// With a HalfWidth target: the widest interval half-width of any row
 	// so far, and the time to bring it to the target if half-widths keep
-	// shrinking as 1/√rays (the binomial law), 0 when reached.
+	// shrinking as 1/√rays (plain Monte Carlo's law; RQMC's shrink faster,
+	// so for it this is an upper bound), 0 when reached.
 	WorstHalfWidth float64
 	ToTarget       time.Duration
 }

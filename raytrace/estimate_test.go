@@ -36,7 +36,7 @@ func TestReferenceCases(t *testing.T) {
 	}
 }
 
-// Over many seeds, 95 % Wilson intervals must contain the exact value in
+// Plain Monte Carlo: over many seeds, 95 % Wilson intervals must contain the exact value in
 // about 95 % of runs (92–98 % accepted: ±2.7 binomial standard deviations at
 // 400 runs). Flat squares: the exact value is the closed form (Howell C-11).
 func TestIntervalCoverage(t *testing.T) {
@@ -45,7 +45,7 @@ func TestIntervalCoverage(t *testing.T) {
 	const runs = 400
 	covered := 0
 	for seed := range uint64(runs) {
-		r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 2000, Seed: seed + 1000}})
+		r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 2000, Seed: seed + 1000, Sampling: SamplingMC}})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -174,11 +174,24 @@ func TestTwoSidedAndFacetNodes(t *testing.T) {
 	}
 }
 
+// HalfWidth rounds double a node's rays until its row's half-width meets
+// the target: with plain Monte Carlo at the binomial law's count, with RQMC
+// (replicate intervals) no later and, on flat squares, at least one
+// doubling sooner.
 func TestHalfWidthRounds(t *testing.T) {
 	m := ReferenceCases()[0].Mesh
-	r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 1000, HalfWidth: 0.01, Seed: 5}})
+	q, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 1000, HalfWidth: 0.01, Seed: 5, Sampling: SamplingRQMC}})
 	if err != nil {
 		t.Fatal(err)
+	}
+	r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 1000, HalfWidth: 0.01, Seed: 5, Sampling: SamplingMC}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range q.Nodes {
+		if w := q.RowHalfWidth(i); w > 0.01 || q.Rays[i] >= r.Rays[i] {
+			t.Errorf("RQMC node %s: half-width %v after %d rays (plain Monte Carlo: %d)", q.Nodes[i].Name, w, q.Rays[i], r.Rays[i])
+		}
 	}
 	for i := range r.Nodes {
 		if w := r.RowHalfWidth(i); w > 0.01 {
@@ -219,7 +232,7 @@ func TestWilson(t *testing.T) {
 
 func TestReplicatesAddUp(t *testing.T) {
 	m := ReferenceCases()[1].Mesh
-	r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 10001, Seed: 3, Replicates: 4}})
+	r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 10001, Seed: 3, Replicates: 4, Sampling: SamplingMC}})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -238,8 +251,9 @@ func TestReplicatesAddUp(t *testing.T) {
 	if r.Replicas[0].Rays[0] != 2501 || r.Replicas[3].Rays[0] != 2500 {
 		t.Errorf("replicate rays %d, %d; want 2501, 2500", r.Replicas[0].Rays[0], r.Replicas[3].Rays[0])
 	}
-	// Replicates do not change the pooled numbers.
-	r2, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 10001, Seed: 3}})
+	// With plain Monte Carlo, replicates do not change the pooled numbers
+	// (with RQMC they do: each replicate is its own point set).
+	r2, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 10001, Seed: 3, Sampling: SamplingMC}})
 	if err != nil {
 		t.Fatal(err)
 	}

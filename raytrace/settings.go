@@ -106,7 +106,7 @@ func (s Settings) WithDefaults() Settings {
 		s.BatchSize = DefaultBatchSize
 	}
 	if s.Sampling == "" {
-		s.Sampling = SamplingMC
+		s.Sampling = SamplingRQMC
 	}
 	if s.Sampling == SamplingRQMC && s.Replicates == 0 {
 		s.Replicates = DefaultReplicates

@@ -67,7 +67,7 @@ func (tf *traceFlags) register(fs *flag.FlagSet, groups int) {
 		fs.Float64Var(&tf.confidence, "confidence", tf.confidence, "confidence level of the intervals")
 		fs.Uint64Var(&tf.seed, "seed", tf.seed, "random seed: the same seed gives the same numbers")
 		fs.BoolVar(&tf.facets, "facets", false, "make every facet its own node")
-		fs.StringVar(&tf.sampling, "sampling", "", "rqmc: scrambled Sobol' points per replicate, intervals from the replicates; mc: independent random numbers, binomial intervals (default: the case's rays.sampling, else mc)")
+		fs.StringVar(&tf.sampling, "sampling", "", "rqmc: scrambled Sobol' points per replicate, intervals from the replicates; mc: independent random numbers, binomial intervals (default: the case's rays.sampling, else rqmc)")
 	}
 	if groups&runFlags != 0 {
 		fs.IntVar(&tf.threads, "threads", tf.threads, "worker threads (results do not depend on it)")

@@ -36,11 +36,11 @@ func Example() {
 		panic(err)
 	}
 	for i, n := range a.Nodes {
-		fmt.Printf("%-9s T = %5.1f K ± %.1f   Q = %7.1f W ± %.1f\n", n.Name, a.Solution.T[i], a.THalf[i], a.Solution.Q[i], a.QHalf[i])
+		fmt.Printf("%-9s T = %5.1f K ± %.2f   Q = %7.1f W ± %.2f\n", n.Name, a.Solution.T[i], a.THalf[i], a.Solution.Q[i], a.QHalf[i])
 	}
 	fmt.Printf("to the room: %.1f W\n", a.Solution.ToAmbient)
 	// Output:
-	// floor     T = 350.0 K ± 0.0   Q =    44.7 W ± 0.2
-	// back_wall T = 308.4 K ± 0.5   Q =     0.0 W ± 0.0
+	// floor     T = 350.0 K ± 0.00   Q =    44.7 W ± 0.03
+	// back_wall T = 308.5 K ± 0.10   Q =     0.0 W ± 0.00
 	// to the room: 44.7 W
 }
