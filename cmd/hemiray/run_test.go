@@ -424,4 +424,13 @@ func TestDropConductors(t *testing.T) {
 			t.Errorf("--no-conductances wrote %s", f)
 		}
 	}
+	compact := filepath.Join(dir, "compact")
+	if code, _, e := runCLI("run", cs, "--rays", "3000", "--quiet", "--no-pictures", "--csv", "compact", "-o", compact); code != 0 {
+		t.Fatal(e)
+	}
+	for f, want := range map[string]bool{"conductances.csv": false, "conductances.mtx": true} {
+		if _, err := os.Stat(filepath.Join(compact, f)); (err == nil) != want {
+			t.Errorf("--csv compact: %s written %v, want %v", f, err == nil, want)
+		}
+	}
 }

@@ -22,9 +22,9 @@ type Outputs struct {
 	// Pictures writes the PNG pictures and model.vtp too.
 	Pictures bool
 	// Compact leaves out the per-pair CSV files (viewfactors_pairs.csv,
-	// viewfactors_smoothed_pairs.csv) and tallies.csv, which run to
-	// gigabytes for facet-level models; the Matrix Market files carry the
-	// same matrices, tallies.bin the counts.
+	// viewfactors_smoothed_pairs.csv, conductances.csv) and tallies.csv,
+	// which run to gigabytes for facet-level models; the Matrix Market
+	// files carry the same matrices, tallies.bin the counts.
 	Compact bool
 }
 
@@ -91,7 +91,7 @@ func Write(dir string, o Outputs) ([]string, error) {
 			return nil, err
 		}
 		written = append(written, mtx...)
-		if a.Conductors != nil {
+		if a.Conductors != nil && !o.Compact {
 			if err := writeConductances(dir, a); err != nil {
 				return nil, err
 			}
