@@ -44,6 +44,7 @@ func main() {
 	scaleDrop := flag.Float64("scale-drop", 0, "with -scale: drop conductors below this share of both nodes' emission")
 	scalePer := flag.Int("scale-per", 100, "with -scale: facets per node")
 	scaleOnce := flag.Bool("scale-once", false, "with -scale: only on -threads threads, not also on 1")
+	scaleNoG := flag.Bool("scale-no-conductances", false, "with -scale: skip the conductances")
 	accuracy := flag.Bool("accuracy", false, "instead: rays per node to a 0.001 half-width on four closed-form configurations, plain Monte Carlo against RQMC, and the cluttered room")
 	seeds := flag.Int("seeds", 24, "with -accuracy: independent runs per point")
 	flag.Parse()
@@ -78,7 +79,7 @@ func main() {
 				counts = []int{*threads}
 			}
 			for _, th := range counts {
-				r, err := runScale(w.name, m, w.per, *scaleRays, th, *scaleDrop)
+				r, err := runScale(w.name, m, w.per, *scaleRays, th, *scaleDrop, !*scaleNoG)
 				if err != nil {
 					log.Fatalf("%s: %v", w.name, err)
 				}

@@ -34,7 +34,7 @@ type scaleResult struct {
 // runScale traces, smooths, solves (4 replicates) and writes every output
 // (--csv compact, no pictures) of m with its facets grouped into nodes of
 // per consecutive facets of a surface, every node a gray wall at 300 K.
-func runScale(name string, m *mesh.Mesh, per int, rays int64, threads int, drop float64) (scaleResult, error) {
+func runScale(name string, m *mesh.Mesh, per int, rays int64, threads int, drop float64, conductances bool) (scaleResult, error) {
 	r := scaleResult{name: name, facets: len(m.Facets), threads: threads, rays: rays, drop: drop}
 	nodeOf := make([]string, len(m.Facets))
 	for _, s := range m.Surfaces {
@@ -45,7 +45,7 @@ func runScale(name string, m *mesh.Mesh, per int, rays int64, threads int, drop 
 	eps, T := 0.8, 300.0
 	in := &analysis.Input{
 		Case: &analysis.Case{Defaults: analysis.SurfaceSpec{Emissivity: &eps, Temperature: &T},
-			Output: analysis.OutputSpec{DropConductors: drop}},
+			Output: analysis.OutputSpec{DropConductors: drop, Conductances: &conductances}},
 		Mesh:     m,
 		Settings: raytrace.Settings{Rays: rays, Seed: 1, Replicates: 4},
 		NodeOf:   nodeOf,
@@ -93,10 +93,12 @@ func runScale(name string, m *mesh.Mesh, per int, rays int64, threads int, drop 
 	if err != nil {
 		return r, err
 	}
-	c := a.Conductors
-	r.nodes, r.conductS, r.kept, r.iterations = len(t.Result.Nodes), c.Elapsed.Seconds(), c.Kept(), c.Iterations
-	for _, d := range c.Dropped {
-		r.maxDropped = max(r.maxDropped, d)
+	r.nodes = len(t.Result.Nodes)
+	if c := a.Conductors; c != nil {
+		r.conductS, r.kept, r.iterations = c.Elapsed.Seconds(), c.Kept(), c.Iterations
+		for _, d := range c.Dropped {
+			r.maxDropped = max(r.maxDropped, d)
+		}
 	}
 	r.traceS, r.analyseS, r.writeS = t1.Sub(t0).Seconds(), t2.Sub(t1).Seconds(), t3.Sub(t2).Seconds()
 	r.peakHeapGB = float64(peak.Load()-min(peak.Load(), base.HeapAlloc)) / (1 << 30)
