@@ -309,7 +309,10 @@ func (e *engine) run(ctx context.Context, units []unit, out *Result) error {
 	}
 	base := e.traced.Load()
 	next := atomic.Int64{}
-	finished := make(chan unitResult, 4*e.opts.Threads)
+	// Finished units go to the collector in groups of at least
+	// handoffRays rays, so that facet nodes (tens of rays a unit) do not
+	// pay a channel handoff per unit.
+	finished := make(chan []unitResult, 4*e.opts.Threads)
 	g, gctx := errgroup.WithContext(ctx)
 	for range e.opts.Threads {
 		g.Go(func() error {
@@ -318,19 +321,34 @@ func (e *engine) run(ctx context.Context, units []unit, out *Result) error {
 				s[k] = newScratch(len(e.nm.nodes), len(e.m.Surfaces))
 			}
 			var b bvh.Batch
+			var group []unitResult
+			var rays int64
+			send := func() error {
+				select {
+				case finished <- group:
+					group, rays = nil, 0
+					return nil
+				case <-gctx.Done():
+					return gctx.Err()
+				}
+			}
 			for {
 				k := next.Add(1) - 1
 				if k >= int64(len(units)) {
+					if len(group) > 0 {
+						return send()
+					}
 					return nil
 				}
 				res, err := e.trace(gctx, units[k], s, &b)
 				if err != nil {
 					return err
 				}
-				select {
-				case finished <- res:
-				case <-gctx.Done():
-					return gctx.Err()
+				group = append(group, res)
+				if rays += units[k].Hi - units[k].Lo; rays >= handoffRays {
+					if err := send(); err != nil {
+						return err
+					}
 				}
 			}
 		})
@@ -363,7 +381,7 @@ func (e *engine) run(ctx context.Context, units []unit, out *Result) error {
 	var cerr error
 	for {
 		select {
-		case r, ok := <-finished:
+		case rs, ok := <-finished:
 			if !ok {
 				<-waited
 				report()
@@ -372,7 +390,9 @@ func (e *engine) run(ctx context.Context, units []unit, out *Result) error {
 				}
 				return werr
 			}
-			out.add(&r)
+			for k := range rs {
+				out.add(&rs[k])
+			}
 		case <-progress.C:
 			report()
 		case <-checkpoint.C:
@@ -385,6 +405,11 @@ func (e *engine) run(ctx context.Context, units []unit, out *Result) error {
 		}
 	}
 }
+
+// handoffRays is the fewest rays a worker hands to the collector at once
+// (a time-limited or cancelled run loses at most this much unsaved work
+// per worker, which is retraced on resume).
+const handoffRays = 4096
 
 // chunk is how many rays are generated and traced together.
 const chunk = 64
