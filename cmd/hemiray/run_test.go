@@ -19,8 +19,8 @@ import (
 	"github.com/hemiray/hemiray/raytrace/exchange"
 )
 
-// readSurfaces reads surfaces.csv into node → column → value.
-func readSurfaces(t *testing.T, path string) map[string]map[string]string {
+// readCSV reads a whole CSV file, header first.
+func readCSV(t *testing.T, path string) [][]string {
 	t.Helper()
 	f, err := os.Open(path)
 	if err != nil {
@@ -31,6 +31,13 @@ func readSurfaces(t *testing.T, path string) map[string]map[string]string {
 	if err != nil {
 		t.Fatal(err)
 	}
+	return recs
+}
+
+// readSurfaces reads surfaces.csv into node → column → value.
+func readSurfaces(t *testing.T, path string) map[string]map[string]string {
+	t.Helper()
+	recs := readCSV(t, path)
 	out := map[string]map[string]string{}
 	for _, r := range recs[1:] {
 		row := map[string]string{}
@@ -365,18 +372,7 @@ func TestDropConductors(t *testing.T) {
 	}
 	s := readSurfaces(t, filepath.Join(all, "surfaces.csv"))
 	emission := func(n string) float64 { return exchange.Sigma * val(t, s[n]["emissivity"]) * val(t, s[n]["area_m2"]) }
-	read := func(p string) [][]string {
-		f, err := os.Open(p)
-		if err != nil {
-			t.Fatal(err)
-		}
-		defer f.Close()
-		recs, err := csv.NewReader(f).ReadAll()
-		if err != nil {
-			t.Fatal(err)
-		}
-		return recs[1:]
-	}
+	read := func(p string) [][]string { return readCSV(t, p)[1:] }
 	kept := map[[2]string]bool{}
 	for _, r := range read(filepath.Join(some, "conductances.csv")) {
 		kept[[2]string{r[0], r[1]}] = true
