@@ -27,21 +27,32 @@
 // normal, the direction law of a diffuse emitter. The probability that it
 // first meets node j is the view factor F_ij, so with N_i rays and k_ij hits
 //
-//	F̂_ij = k_ij / N_i,  standard error √(F̂(1−F̂)/N_i),
+//	F̂_ij = k_ij / N_i.
 //
-// unbiased, with the binomial variance (Howell, "The Monte Carlo method in
-// radiative heat transfer", J. Heat Transfer 120(3), 1998).
-// The interval is Wilson's score interval at the chosen confidence (Wilson,
-// J. Amer. Statist. Assoc. 22, 1927), which keeps its coverage for small
-// counts, including k = 0, where the Wald interval collapses to a point.
+// With independent numbers per ray (Settings.Sampling "mc", plain Monte
+// Carlo) it is unbiased with the binomial variance, standard error
+// √(F̂(1−F̂)/N_i) (Howell, "The Monte Carlo method in radiative heat
+// transfer", J. Heat Transfer 120(3), 1998), and the interval is Wilson's
+// score interval (Wilson, J. Amer. Statist. Assoc. 22, 1927), which keeps
+// its coverage for small counts, including k = 0.
+//
+// By default ("rqmc", randomized quasi-Monte Carlo) the rays are split into
+// R replicates, ray r into replicate r mod R, and each replicate takes its
+// numbers from its own scrambled Sobol' sequence (sample.Sobol), which
+// covers the node and the hemisphere far more evenly. Each replicate's
+// estimate is unbiased and the replicates are independent, so the interval
+// is Student's t over them, t_{R−1}·s/√R; an entry no replicate hit keeps
+// Wilson's interval.
 //
 // # Determinism
 //
-// Ray r of node i draws its numbers from the counter-based stream
-// (seed, i, r / BatchSize) at offset (r mod BatchSize)·numbersPerRay. A
-// result therefore depends on the mesh, the nodes, the seed and the number
-// of rays per node only — never on the number of threads, the order in
-// which work is done, or how it is split.
+// A ray's numbers depend only on the seed, its node and its index: with
+// "mc", ray r of node i draws from the counter-based stream (seed, i,
+// r / BatchSize) at offset (r mod BatchSize)·numbersPerRay; with "rqmc" it
+// is point r / R of the randomization (seed, i, r mod R). A result
+// therefore depends on the mesh, the nodes, the seed and the number of rays
+// per node only — never on the number of threads, the order in which work
+// is done, or how it is split.
 //
 // # Self-hits and back faces
 //
