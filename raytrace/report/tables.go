@@ -37,7 +37,7 @@ func HeatBalance(w io.Writer, a *analysis.Result) {
 		for i, n := range a.Nodes {
 			th, qh := "-", "-"
 			if a.THalf != nil {
-				th, qh = fmt.Sprintf("%.2f", a.THalf[i]), fmt.Sprintf("%.4g", a.QHalf[i])
+				th, qh = fmt.Sprintf("%.3g", a.THalf[i]), fmt.Sprintf("%.4g", a.QHalf[i])
 			}
 			fmt.Fprintf(tw, "%s\t%.3g\t%s\t%.2f\t%s\t%.5g\t%s\t\n", n.Name, a.Info[i].Emissivity, a.Info[i].Condition, a.Solution.T[i], th, a.Solution.Q[i], qh)
 		}
