@@ -166,11 +166,12 @@ func (c *Conductors) iterate(area, eps []float64, F []Row, ambient []float64) er
 	var next atomic.Int64
 	var mu sync.Mutex
 	var firstErr error
+	var failed atomic.Bool // a column failed: the others stop taking work
 	var wg sync.WaitGroup
 	for range min(blocks, runtime.GOMAXPROCS(0)) {
 		wg.Go(func() {
 			ws := newWorkspace(n, blockWidth)
-			for b := int(next.Add(1) - 1); b < blocks; b = int(next.Add(1) - 1) {
+			for b := int(next.Add(1) - 1); b < blocks && !failed.Load(); b = int(next.Add(1) - 1) {
 				lo, hi := b*blockWidth, min((b+1)*blockWidth, columns)
 				iters, err := c.solveBlock(ws, K, w, diag, area, eps, ambient, lo, hi)
 				mu.Lock()
@@ -180,6 +181,7 @@ func (c *Conductors) iterate(area, eps []float64, F []Row, ambient []float64) er
 				}
 				mu.Unlock()
 				if err != nil {
+					failed.Store(true)
 					return
 				}
 			}

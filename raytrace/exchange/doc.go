@@ -32,5 +32,10 @@
 // R = diag(ρ), E = diag(ε) (Gebhart, Int. J. Heat Mass Transfer 3, 1961).
 // The total exchange area is A_i·ℱ_ij = ε_i A_i B_ij, symmetric, and the
 // radiative conductance is σ·A_i·ℱ_ij in W/K⁴ (Hottel & Sarofim, Radiative
-// Transfer, 1967).
+// Transfer, 1967). TotalExchange computes them for any node count: by one
+// dense LU factorisation for small, well-connected models, otherwise column
+// by column with conjugate gradients on the equivalent symmetric series
+// A·ℱ = E(K + KWK + KWKWK + …)E, K = AF, W = RA⁻¹ (the emission absorbed
+// after 0, 1, 2, … reflections), optionally dropping conductors negligible
+// to both of their nodes.
 package exchange
