@@ -152,7 +152,7 @@ func loadInput(fs *flag.FlagSet, tf *traceFlags, args []string) (*job, error) {
 		return nil, usagef("--threads and --checkpoint-every must be positive, --time-limit not negative")
 	}
 	if err := s.WithDefaults().Check(); err != nil {
-		return nil, usagef("%v (check --rays, --max-rays, --halfwidth, --confidence)", err)
+		return nil, usagef("%v (check --rays, --max-rays, --halfwidth, --confidence, --sampling)", err)
 	}
 	j.run.Threads, j.run.Resume, j.run.CheckpointEvery, j.run.TimeLimit = tf.threads, tf.resume, tf.checkpointEvery, tf.timeLimit
 	j.pictures, j.quiet = !tf.noPictures, tf.quiet

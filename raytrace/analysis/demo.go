@@ -28,6 +28,7 @@ per_node = 500000
 seed = 2026
 confidence = 0.95
 replicates = 8
+sampling = "rqmc"     # scrambled Sobol' points, intervals from the replicates; "mc": plain Monte Carlo
 
 [ambient]
 temperature = 298.0   # K, the room seen through the vent
