@@ -158,6 +158,14 @@ func Estimate(ctx context.Context, m *mesh.Mesh, opts Options) (*Result, error) 
 		copy(r.Targets, opts.Targets)
 	}
 	e := &engine{m: m, tree: tree, em: em, nm: nm, opts: &opts, start: start}
+	if opts.Optics != nil {
+		if err := checkOpticsKeys(m, opts.Optics); err != nil {
+			return nil, err
+		}
+		if e.fates, err = fates(m, nm.nodes, opts.Optics); err != nil {
+			return nil, err
+		}
+	}
 	e.nodeEm = make([]nodeEmitter, len(nm.nodes))
 	for i := range nm.nodes {
 		e.nodeEm[i] = newNodeEmitter(&nm.nodes[i], area)
@@ -286,6 +294,9 @@ type engine struct {
 	opts   *Options
 	start  time.Time
 	traced atomic.Int64
+	// fates, when set, are the nodes' interaction thresholds: rays are
+	// followed through reflections and tallied where they are absorbed.
+	fates []fate
 }
 
 // unitResult is the tally of one finished unit, per replicate (one when
@@ -460,6 +471,18 @@ func (e *engine) trace(ctx context.Context, u unit, s []*scratch, b *bvh.Batch) 
 			rep := (lo + int64(k)) % reps
 			sc := s[rep]
 			res.rays[rep]++
+			if e.fates != nil {
+				st := followStream(e.opts.Seed, u.Node, lo+int64(k))
+				switch end, id := e.follow(qs[k].D, *h, &st); end {
+				case endEscaped:
+					res.escaped[rep]++
+				case endAbsorbed:
+					sc.hit(NodeID(id))
+				default:
+					sc.backHit(SurfaceID(id))
+				}
+				continue
+			}
 			switch {
 			case h.Facet < 0:
 				res.escaped[rep]++

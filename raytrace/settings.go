@@ -5,6 +5,7 @@ import (
 	"encoding/hex"
 	"encoding/json"
 	"fmt"
+	"maps"
 	"reflect"
 	"slices"
 )
@@ -80,6 +81,12 @@ type Settings struct {
 	Replicates int `json:"replicates"`
 	// Sampling is SamplingMC or SamplingRQMC (the default).
 	Sampling string `json:"sampling"`
+	// Optics, when set, makes the run follow every ray through reflections
+	// and transmissions until it is absorbed: the tallies then count where
+	// rays are absorbed (absorption factors B_ij) instead of what they meet
+	// first (view factors). Keyed by surface name, and NAME.back for the
+	// back of a two-sided surface; every node's side needs an entry.
+	Optics map[string]Optics `json:"optics,omitempty"`
 	// BatchSize is the number of rays per random stream and work unit.
 	// Changing it changes the numbers. Default 65,536.
 	BatchSize int64 `json:"batch_size"`
@@ -142,6 +149,11 @@ func (s Settings) Check() error {
 		return fmt.Errorf("sampling %q: use %q or %q", s.Sampling, SamplingRQMC, SamplingMC)
 	case s.Sampling == SamplingRQMC && s.Replicates < 2:
 		return fmt.Errorf("sampling %q takes its intervals from replicates: give at least 2", s.Sampling)
+	}
+	for _, key := range slices.Sorted(maps.Keys(s.Optics)) {
+		if err := s.Optics[key].Check(); err != nil {
+			return fmt.Errorf("optics of %s: %w", key, err)
+		}
 	}
 	return nil
 }
