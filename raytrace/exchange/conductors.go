@@ -106,7 +106,11 @@ func TotalExchange(area, eps []float64, F []Row, ambient []float64, threshold fl
 	for i := range F {
 		entries += len(F[i].Col)
 	}
-	if n <= denseLimit && 8*entries >= n*n {
+	black := true // no reflections: S = AF, which the column solves give at once
+	for _, e := range eps {
+		black = black && e == 1
+	}
+	if n <= denseLimit && 8*entries >= n*n && !black {
 		S, amb, err := denseExchangeAreas(area, eps, F, ambient)
 		if err != nil {
 			return nil, err

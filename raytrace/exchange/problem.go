@@ -50,6 +50,11 @@ type Problem struct {
 	// or Adiabatic). The members' own Cond are ignored.
 	Groups    [][]int
 	GroupCond []Condition
+	// Absorption says that F and Ambient hold absorption factors B_ij, the
+	// share of node i's emission that node j absorbs after any number of
+	// reflections and transmissions (rays followed through them), rather
+	// than view factors; reciprocity then reads ε_iA_iB_ij = ε_jA_jB_ji.
+	Absorption bool
 }
 
 // Solution holds per-node results: T in K, J and q in W/m², Q in W (net
