@@ -24,6 +24,13 @@ func TestShardsMergeExactly(t *testing.T) {
 			shardsMergeExactly(t, baseOpts)
 		})
 	}
+	t.Run("followed", func(t *testing.T) {
+		shardsMergeExactly(t, func() Options {
+			o := baseOpts()
+			o.Optics = halfMirrors(ReferenceCases()[1].Mesh)
+			return o
+		})
+	})
 }
 
 func shardsMergeExactly(t *testing.T, baseOpts func() Options) {

@@ -90,10 +90,14 @@ func TestClosedEnclosure(t *testing.T) {
 // another batch split of the work.
 func TestDeterminism(t *testing.T) {
 	m := ReferenceCases()[1].Mesh
-	for _, sampling := range []string{SamplingMC, SamplingRQMC} {
+	for _, sampling := range []string{SamplingMC, SamplingRQMC, "followed"} {
 		var got []*Result
 		for _, th := range []int{1, 3} {
-			r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 30000, Seed: 9, BatchSize: 4096, Sampling: sampling}, Threads: th})
+			s := Settings{Rays: 30000, Seed: 9, BatchSize: 4096, Sampling: sampling}
+			if sampling == "followed" {
+				s.Sampling, s.Optics = SamplingRQMC, halfMirrors(m)
+			}
+			r, err := Estimate(context.Background(), m, Options{Settings: s, Threads: th})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -103,6 +107,16 @@ func TestDeterminism(t *testing.T) {
 			t.Errorf("%s: tallies differ between 1 and 3 threads:\n%+v\n%+v", sampling, got[0].Tally, got[1].Tally)
 		}
 	}
+}
+
+// halfMirrors gives every surface of m emissivity 0.4 and half of its
+// reflection mirror-like, so that rays are followed through reflections.
+func halfMirrors(m *mesh.Mesh) map[string]Optics {
+	o := map[string]Optics{}
+	for _, s := range m.Surfaces {
+		o[s.Name] = Optics{Emissivity: 0.4, Specular: 0.5}
+	}
+	return o
 }
 
 // A box with one face flipped: rays from the others hit its back, which is

@@ -29,6 +29,9 @@ type Result struct {
 	Solution   *exchange.Solution
 	Info       []NodeInfo
 	AmbientT   float64 // K
+	// Absorption says the matrices hold absorption factors B_ij (rays
+	// followed through reflections) rather than view factors F_ij.
+	Absorption bool
 	// Conductors are the total exchange areas A_iℱ_ij in m², sparse and
 	// symmetric, with those to the ambient.
 	Conductors *exchange.Conductors
@@ -54,6 +57,18 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 		}
 	}
 	open := res.HasAmbient()
+	absorption := res.Options.Optics != nil
+	weight := make([]float64, len(res.Nodes)) // A_i, or ε_iA_i for absorption factors
+	for i, n := range res.Nodes {
+		weight[i] = n.Area
+		if absorption {
+			eps, err := in.Case.emissivity(in.Mesh.Surfaces[n.Surface].Name, n)
+			if err != nil {
+				return nil, err
+			}
+			weight[i] *= eps
+		}
+	}
 	// The pooled tally and the replicates are smoothed side by side: they
 	// are independent, and each result goes to its own slot, so the order of
 	// work cannot change a bit.
@@ -62,7 +77,7 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 		tallies = append(tallies, &res.Replicas[r])
 	}
 	sms, errs := make([]*smooth.Result, len(tallies)), make([]error, len(tallies))
-	parallel(len(tallies), func(k int) { sms[k], errs[k] = smoothTally(res, tallies[k], open) })
+	parallel(len(tallies), func(k int) { sms[k], errs[k] = smoothTally(weight, tallies[k], open) })
 	if errs[0] != nil {
 		return nil, nameNode(errs[0], res.Nodes, res)
 	}
@@ -76,7 +91,7 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 		}
 		reps = append(reps, sms[r+1])
 	}
-	a, err := in.solve(res.Nodes, sm, reps, open, res.Options.Confidence)
+	a, err := in.solve(res.Nodes, sm, reps, open, absorption, res.Options.Confidence)
 	if err != nil {
 		return nil, nameNode(err, res.Nodes, res)
 	}
@@ -95,12 +110,11 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 	return a, nil
 }
 
-// smoothTally smooths a tally (pooled or a replicate).
-func smoothTally(res *raytrace.Result, t *raytrace.Tally, open bool) (*smooth.Result, error) {
-	c := smooth.Counts{Area: make([]float64, len(res.Nodes)), Rays: t.Rays, Hits: t.Hits}
-	for i, n := range res.Nodes {
-		c.Area[i] = n.Area
-	}
+// smoothTally smooths a tally (pooled or a replicate) for reciprocity with
+// the given weights: the areas for view factors (A_iF_ij = A_jF_ji), the
+// emission areas for absorption factors (ε_iA_iB_ij = ε_jA_jB_ji).
+func smoothTally(weight []float64, t *raytrace.Tally, open bool) (*smooth.Result, error) {
+	c := smooth.Counts{Area: weight, Rays: t.Rays, Hits: t.Hits}
 	if open {
 		c.Ambient = t.Escaped
 	}
@@ -109,12 +123,19 @@ func smoothTally(res *raytrace.Result, t *raytrace.Tally, open bool) (*smooth.Re
 
 // solve solves the exchange for the pooled smoothed matrix and every
 // replicate's, and computes exchange areas.
-func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.Result, open bool, confidence float64) (*Result, error) {
+func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.Result, open, absorption bool, confidence float64) (*Result, error) {
 	p, info, err := problem(in.Case, in.Mesh, nodes, sm, open)
 	if err != nil {
 		return nil, err
 	}
-	a := &Result{Nodes: nodes, Open: open, Smoothed: sm, Info: info, AmbientT: p.AmbientT, Confidence: confidence}
+	p.Absorption = absorption
+	a := &Result{Nodes: nodes, Open: open, Absorption: absorption, Smoothed: sm, Info: info, AmbientT: p.AmbientT, Confidence: confidence}
+	// Exchange areas: AF with the reflections summed, or directly εAB when
+	// the rays were followed through them (black nodes of area εA).
+	area, eps := p.Area, p.Emissivity
+	if absorption {
+		area, eps = exchange.EmissionAreas(p.Area, p.Emissivity), ones(len(p.Area))
+	}
 	// Job 0 solves the pooled matrix, job 1 computes the exchange areas,
 	// job 2+r solves replicate r: independent work, run side by side.
 	sols, errs := make([]*exchange.Solution, 2+len(reps)), make([]error, 2+len(reps))
@@ -123,9 +144,10 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 		case k == 0:
 			sols[0], errs[0] = exchange.Solve(p)
 		case k == 1 && (in.Case.Output.Conductances == nil || *in.Case.Output.Conductances):
-			a.Conductors, errs[1] = exchange.TotalExchange(p.Area, p.Emissivity, p.F, p.Ambient, in.Case.Output.DropConductors)
+			a.Conductors, errs[1] = exchange.TotalExchange(area, eps, p.F, p.Ambient, in.Case.Output.DropConductors)
 		case k >= 2:
 			pr, _, err := problem(in.Case, in.Mesh, nodes, reps[k-2], open)
+			pr.Absorption = absorption
 			if err == nil {
 				sols[k], err = exchange.Solve(pr)
 			}
@@ -156,6 +178,14 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 		a.QHalf = TInterval(Qs, confidence)
 	}
 	return a, nil
+}
+
+func ones(n int) []float64 {
+	out := make([]float64, n)
+	for i := range out {
+		out[i] = 1
+	}
+	return out
 }
 
 // parallel runs fn(0) … fn(n−1) on up to GOMAXPROCS goroutines and waits.

@@ -57,6 +57,12 @@ type RaySpec struct {
 	Facets     bool    `toml:"facets"`
 	Replicates int     `toml:"replicates"`
 	Sampling   string  `toml:"sampling"` // "rqmc" or "mc"
+	// FollowReflections follows rays through reflections even when every
+	// surface is diffuse and opaque (a specular or transmitting surface
+	// always makes a run follow them): absorption factors instead of view
+	// factors, without the uniform-irradiation premise of the view-factor
+	// route.
+	FollowReflections bool `toml:"follow_reflections"`
 }
 
 // AmbientSpec is the blackbody surroundings that escaping rays reach.
@@ -85,13 +91,19 @@ type OutputSpec struct {
 // SurfaceSpec is the settings of one node (or the defaults). Unset values
 // are nil.
 type SurfaceSpec struct {
-	Emissivity  *float64 `toml:"emissivity"`
-	TwoSided    *bool    `toml:"two_sided"`
-	Flip        *bool    `toml:"flip"`
-	Temperature *float64 `toml:"temperature"`
-	HeatFlux    *float64 `toml:"heat_flux"`
-	HeatFlow    *float64 `toml:"heat_flow"`
-	Adiabatic   *bool    `toml:"adiabatic"`
+	Emissivity *float64 `toml:"emissivity"`
+	// Specular is the share of the reflected energy reflected as by a
+	// mirror; Transmittance the share of incident energy a thin two-sided
+	// sheet lets through. Either makes the run follow rays through
+	// reflections (raytrace.Optics).
+	Specular      *float64 `toml:"specular"`
+	Transmittance *float64 `toml:"transmittance"`
+	TwoSided      *bool    `toml:"two_sided"`
+	Flip          *bool    `toml:"flip"`
+	Temperature   *float64 `toml:"temperature"`
+	HeatFlux      *float64 `toml:"heat_flux"`
+	HeatFlow      *float64 `toml:"heat_flow"`
+	Adiabatic     *bool    `toml:"adiabatic"`
 	// Split makes several nodes of the surface: "grid NxM" or "patches".
 	Split string `toml:"split"`
 }
@@ -172,6 +184,15 @@ func checkSpec(table []string, sp SurfaceSpec) error {
 	if e := sp.Emissivity; e != nil && !(*e > 0 && *e <= 1) {
 		return keyErr(key("emissivity"), "emissivity %v is outside (0, 1]", *e)
 	}
+	if v := sp.Specular; v != nil && !(*v >= 0 && *v <= 1) {
+		return keyErr(key("specular"), "specular %v is outside [0, 1] (the share of reflection that is mirror-like)", *v)
+	}
+	if v := sp.Transmittance; v != nil && !(*v >= 0 && *v < 1) {
+		return keyErr(key("transmittance"), "transmittance %v is outside [0, 1)", *v)
+	}
+	if e, v := sp.Emissivity, sp.Transmittance; e != nil && v != nil && *e+*v > 1 {
+		return keyErr(key("transmittance"), "emissivity %v and transmittance %v add up to more than 1", *e, *v)
+	}
 	if t := sp.Temperature; t != nil && !(*t > 0 && *t <= maxTemperature) {
 		return keyErr(key("temperature"), "temperature %v K must be positive (kelvin) and at most %g", *t, maxTemperature)
 	}
@@ -228,6 +249,7 @@ func (c *Case) Spec(name string) SurfaceSpec {
 	}
 	for _, f := range []struct{ dst, src **float64 }{
 		{&out.Emissivity, &own.Emissivity}, {&out.Temperature, &own.Temperature},
+		{&out.Specular, &own.Specular}, {&out.Transmittance, &own.Transmittance},
 		{&out.HeatFlux, &own.HeatFlux}, {&out.HeatFlow, &own.HeatFlow},
 	} {
 		if *f.src != nil {

@@ -142,6 +142,9 @@ func (in *Input) AnalyseFactors(given []Given) (*Result, error) {
 	if in.Case == nil {
 		return nil, fmt.Errorf("an exchange solve needs a case file with emissivities and conditions")
 	}
+	if in.Settings.Optics != nil {
+		return nil, errors.New("the case follows rays through reflections (a specular or transmitting surface, or follow_reflections), which view factors cannot describe: trace it instead of giving view factors")
+	}
 	nodes, err := in.Nodes()
 	if err != nil {
 		return nil, err
@@ -212,7 +215,7 @@ func (in *Input) AnalyseFactors(given []Given) (*Result, error) {
 		sm.MovedAmbient[i] = math.NaN()
 	}
 	sm.MaxMoved = math.NaN()
-	a, err := in.solve(nodes, sm, nil, open, in.Settings.WithDefaults().Confidence)
+	a, err := in.solve(nodes, sm, nil, open, false, in.Settings.WithDefaults().Confidence)
 	if err != nil {
 		return nil, err
 	}

@@ -85,6 +85,10 @@ func Open(c *Case) (*Input, error) {
 		}
 	}
 	in := &Input{Case: c, Mesh: m, Files: files, Settings: c.Settings(names)}
+	var err error
+	if in.Settings.Optics, err = c.optics(names); err != nil {
+		return nil, err
+	}
 	if nm := c.Model.NodeMap; nm != "" {
 		in.NodeMapFile = nm
 		if !filepath.IsAbs(nm) {
@@ -129,6 +133,9 @@ func (c *Case) checkSurfaces(m *mesh.Mesh) error {
 			}
 			if sp.conditions() > 0 {
 				return keyErr(table, "the two sides of %s share one temperature: give its condition in [surfaces.%q]", base, base)
+			}
+			if sp.Transmittance != nil {
+				return keyErr(table, "a sheet transmits alike both ways: give the transmittance of %s in [surfaces.%q]", base, base)
 			}
 		case m.SurfaceIndex(name) < 0:
 			return keyErr(table, "no surface %q in the model; its surfaces are: %s", name, strings.Join(SurfaceNames(m), ", "))

@@ -49,9 +49,18 @@ func readNodeColumn(path, col string) (map[string]float64, error) {
 // ReadField reads the values and label of a colouring from a results folder:
 // temperature, heat-flux, ambient or vf:NODE.
 func ReadField(dir, colorBy string) (map[string]float64, string, error) {
-	matrix := filepath.Join(dir, "viewfactors_smoothed.csv")
-	if _, err := os.Stat(matrix); err != nil {
-		matrix = filepath.Join(dir, "viewfactors.csv")
+	// The first of these a run wrote: absorption factors when its rays
+	// were followed through reflections.
+	var matrix string
+	for _, name := range []string{"viewfactors_smoothed.csv", "absorption_smoothed.csv", "viewfactors.csv", "absorption.csv"} {
+		matrix = filepath.Join(dir, name)
+		if _, err := os.Stat(matrix); err == nil {
+			break
+		}
+	}
+	sym := "F"
+	if strings.HasPrefix(filepath.Base(matrix), "absorption") {
+		sym = "B"
 	}
 	switch {
 	case colorBy == "temperature":
@@ -62,11 +71,11 @@ func ReadField(dir, colorBy string) (map[string]float64, string, error) {
 		return v, "q [W/m²]", err
 	case colorBy == "ambient":
 		v, err := readNodeColumn(matrix, "ambient")
-		return v, "F to ambient", err
+		return v, sym + " to ambient", err
 	case strings.HasPrefix(colorBy, "vf:"):
 		node := strings.TrimPrefix(colorBy, "vf:")
 		v, err := readNodeColumn(matrix, node)
-		return v, "F to " + node, err
+		return v, sym + " to " + node, err
 	}
 	return nil, "", fmt.Errorf("%w %q: use surface, side, temperature, heat-flux, ambient or vf:NODE", ErrUnknownColoring, colorBy)
 }

@@ -39,9 +39,11 @@ func writeMTX(path, symmetry, comment string, rows, cols, entries int, body func
 	})
 }
 
-// writeRawMTX writes viewfactors.mtx: the raw view factors, N × (N+1).
-func writeRawMTX(dir string, res *raytrace.Result) error {
+// writeRawMTX writes viewfactors.mtx (absorption.mtx for absorption
+// factors): the raw factors, N × (N+1); it returns the file's name.
+func writeRawMTX(dir string, res *raytrace.Result) (string, error) {
 	n := len(res.Nodes)
+	nm := namesFor(res.Options.Optics != nil)
 	nnz := 0
 	for i := range n {
 		nnz += res.Hits[i].Len()
@@ -49,8 +51,8 @@ func writeRawMTX(dir string, res *raytrace.Result) error {
 			nnz++
 		}
 	}
-	return writeMTX(filepath.Join(dir, "viewfactors.mtx"), "general",
-		"hemiray raw view factors F(row -> column); index N+1 is the ambient; names in nodes.csv", n, n+1, nnz,
+	return nm.stem + ".mtx", writeMTX(filepath.Join(dir, nm.stem+".mtx"), "general",
+		"hemiray raw "+nm.words+" "+nm.symbol+"(row -> column); index N+1 is the ambient; names in nodes.csv", n, n+1, nnz,
 		func(put func(i, j int, v float64) error) error {
 			for i := range n {
 				row := &res.Hits[i]
@@ -69,11 +71,13 @@ func writeRawMTX(dir string, res *raytrace.Result) error {
 		})
 }
 
-// writeAnalysisMTX writes viewfactors_smoothed.mtx (N × (N+1)) and, when
+// writeAnalysisMTX writes viewfactors_smoothed.mtx (absorption_smoothed.mtx
+// for absorption factors; N × (N+1)) and, when
 // the exchange areas were computed, conductances.mtx: σ·A_i·ℱ_ij in W/K⁴,
 // symmetric, (N+1) × (N+1) with the ambient last, lower triangle stored.
 func writeAnalysisMTX(dir string, a *analysis.Result) ([]string, error) {
 	n := len(a.Nodes)
+	nm := namesFor(a.Absorption)
 	nnz := 0
 	for i := range n {
 		nnz += a.Smoothed.F[i].Len()
@@ -81,8 +85,8 @@ func writeAnalysisMTX(dir string, a *analysis.Result) ([]string, error) {
 			nnz++
 		}
 	}
-	err := writeMTX(filepath.Join(dir, "viewfactors_smoothed.mtx"), "general",
-		"hemiray smoothed view factors F(row -> column); index N+1 is the ambient; names in nodes.csv", n, n+1, nnz,
+	err := writeMTX(filepath.Join(dir, nm.stem+"_smoothed.mtx"), "general",
+		"hemiray smoothed "+nm.words+" "+nm.symbol+"(row -> column); index N+1 is the ambient; names in nodes.csv", n, n+1, nnz,
 		func(put func(i, j int, v float64) error) error {
 			for i := range n {
 				row := &a.Smoothed.F[i]
@@ -101,7 +105,7 @@ func writeAnalysisMTX(dir string, a *analysis.Result) ([]string, error) {
 		})
 	c := a.Conductors
 	if err != nil || c == nil {
-		return []string{"viewfactors_smoothed.mtx"}, err
+		return []string{nm.stem + "_smoothed.mtx"}, err
 	}
 	nnz = c.Kept()
 	for i := range n {
@@ -128,7 +132,7 @@ func writeAnalysisMTX(dir string, a *analysis.Result) ([]string, error) {
 			}
 			return nil
 		})
-	return []string{"viewfactors_smoothed.mtx", "conductances.mtx"}, err
+	return []string{nm.stem + "_smoothed.mtx", "conductances.mtx"}, err
 }
 
 // writeNodes writes nodes.csv: the index of each node in the .mtx files

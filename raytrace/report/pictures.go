@@ -179,7 +179,8 @@ func WritePNG(path string, img image.Image) error {
 
 // writePictures writes the pictures and the VTK file of a finished run into
 // dir: model_surfaces.png, model_heatflux.png (with an analysis),
-// viewfactors_heatmap.png and _log.png, and model.vtp. res is nil when the
+// viewfactors_heatmap.png and _log.png (absorption_… for absorption
+// factors), and model.vtp. res is nil when the
 // view factors were given rather than traced; a is nil for a trace alone.
 func writePictures(dir string, in *analysis.Input, nodes []raytrace.Node, res *raytrace.Result, a *analysis.Result) ([]string, error) {
 	p := NewPicture(in.Mesh, in.Settings.TwoSided)
@@ -204,9 +205,10 @@ func writePictures(dir string, in *analysis.Input, nodes []raytrace.Node, res *r
 	if len(nodes) <= SquareLimit {
 		var rows, cols []string
 		var F [][]float64
-		title := "raw view factors F(row → column)"
+		nm := namesFor(a != nil && a.Absorption || res != nil && res.Options.Optics != nil)
+		title := "raw " + nm.words + " " + nm.symbol + "(row → column)"
 		if a != nil {
-			title = "smoothed view factors F(row → column)"
+			title = "smoothed " + nm.words + " " + nm.symbol + "(row → column)"
 			cols = nodeColumns(a)
 			for i := range nodes {
 				F = append(F, smoothedRow(a, i, make([]float64, len(cols))))
@@ -224,9 +226,9 @@ func writePictures(dir string, in *analysis.Input, nodes []raytrace.Node, res *r
 			rows = append(rows, n.Name)
 		}
 		for _, log := range []bool{false, true} {
-			name := "viewfactors_heatmap.png"
+			name := nm.stem + "_heatmap.png"
 			if log {
-				name = "viewfactors_heatmap_log.png"
+				name = nm.stem + "_heatmap_log.png"
 			}
 			if err := WritePNG(filepath.Join(dir, name), render.HeatMap(title, rows, cols, F, log)); err != nil {
 				return nil, err

@@ -32,13 +32,15 @@ func smoothedRow(a *analysis.Result, i int, dense []float64) []float64 {
 }
 
 // writeSmoothed writes viewfactors_smoothed.csv (up to SquareLimit nodes)
-// and viewfactors_smoothed_pairs.csv; it returns the names written.
+// and viewfactors_smoothed_pairs.csv (absorption_… for absorption factors);
+// it returns the names written.
 func writeSmoothed(dir string, a *analysis.Result, pairs bool) ([]string, error) {
 	var written []string
 	cols := nodeColumns(a)
+	nm := namesFor(a.Absorption)
 	if len(a.Nodes) <= SquareLimit {
 		dense := make([]float64, len(cols))
-		err := writeCSV(filepath.Join(dir, "viewfactors_smoothed.csv"), func(emit func(...string)) error {
+		err := writeCSV(filepath.Join(dir, nm.stem+"_smoothed.csv"), func(emit func(...string)) error {
 			emit(append([]string{"from"}, cols...)...)
 			for i, n := range a.Nodes {
 				rec := []string{n.Name}
@@ -52,14 +54,14 @@ func writeSmoothed(dir string, a *analysis.Result, pairs bool) ([]string, error)
 		if err != nil {
 			return nil, err
 		}
-		written = append(written, "viewfactors_smoothed.csv")
+		written = append(written, nm.stem+"_smoothed.csv")
 	}
 	if !pairs {
 		return written, nil
 	}
-	err := atomicfile.Write(filepath.Join(dir, "viewfactors_smoothed_pairs.csv"), func(w io.Writer) error {
+	err := atomicfile.Write(filepath.Join(dir, nm.stem+"_smoothed_pairs.csv"), func(w io.Writer) error {
 		lw := newLineWriter(w)
-		lw.buf = append(lw.buf, "from,to,F_raw,F_smoothed,moved_stderr\n"...)
+		lw.buf = append(lw.buf, "from,to,"+nm.symbol+"_raw,"+nm.symbol+"_smoothed,moved_stderr\n"...)
 		row := func(from, to string, raw, sm, moved float64) error {
 			lw.name(from)
 			lw.name(to)
@@ -98,5 +100,5 @@ func writeSmoothed(dir string, a *analysis.Result, pairs bool) ([]string, error)
 	if err != nil {
 		return nil, err
 	}
-	return append(written, "viewfactors_smoothed_pairs.csv"), nil
+	return append(written, nm.stem+"_smoothed_pairs.csv"), nil
 }

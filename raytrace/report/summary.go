@@ -38,16 +38,20 @@ type MissedRow struct {
 
 // Summary is the content of summary.json.
 type Summary struct {
-	Tool            string                  `json:"tool"`
-	Version         string                  `json:"version"`
-	Created         string                  `json:"created"`
-	InputHash       string                  `json:"input_hash"`
-	Inputs          []string                `json:"inputs"`
-	Seed            uint64                  `json:"seed"`
-	RaysPerNode     int64                   `json:"rays_per_node"`
-	HalfWidthTarget float64                 `json:"halfwidth_target,omitempty"`
-	Confidence      float64                 `json:"confidence"`
-	FacetNodes      bool                    `json:"facet_nodes"`
+	Tool            string   `json:"tool"`
+	Version         string   `json:"version"`
+	Created         string   `json:"created"`
+	InputHash       string   `json:"input_hash"`
+	Inputs          []string `json:"inputs"`
+	Seed            uint64   `json:"seed"`
+	RaysPerNode     int64    `json:"rays_per_node"`
+	HalfWidthTarget float64  `json:"halfwidth_target,omitempty"`
+	Confidence      float64  `json:"confidence"`
+	FacetNodes      bool     `json:"facet_nodes"`
+	// Factors is "view" (F_ij: the surface a ray meets first) or
+	// "absorption" (B_ij: where a ray followed through reflections and
+	// transmissions is absorbed).
+	Factors         string                  `json:"factors"`
 	Complete        bool                    `json:"complete"` // every planned ray traced (from the plan, not from how the run ended)
 	HalfWidthMissed []MissedRow             `json:"halfwidth_missed,omitempty"`
 	RaysTraced      int64                   `json:"rays_traced"`
@@ -77,6 +81,7 @@ func newSummary(in *analysis.Input, t *analysis.Traced, a *analysis.Result, warn
 		InputHash: h, Inputs: in.Files, Seed: st.Seed, RaysPerNode: st.Rays,
 		HalfWidthTarget: st.HalfWidth, Confidence: st.Confidence, FacetNodes: st.FacetNodes,
 		Warnings: append([]string{}, warnings...), Cautions: cautions, Complete: true,
+		Factors: namesFor(st.Optics != nil).stem,
 	}
 	if a != nil {
 		s.Extra = analysisSummary(a)

@@ -37,10 +37,19 @@ func writeSurfaces(dir string, a *analysis.Result) error {
 			}
 			T := a.Solution.T[i]
 			emit(n.Name, num(n.Area), num(in.Emissivity), in.Condition, set[0], set[1], set[2], num(T), num(celsius(T)), th,
-				num(a.Solution.J[i]), num(a.Solution.Flux(i)), num(a.Solution.Q[i]), qh)
+				optional(a.Solution.J[i]), num(a.Solution.Flux(i)), num(a.Solution.Q[i]), qh)
 		}
 		return nil
 	})
+}
+
+// optional writes NaN, a value that has no meaning for the node (the
+// radiosity of a node in an absorption-factor solve), as an empty cell.
+func optional(x float64) string {
+	if math.IsNaN(x) {
+		return ""
+	}
+	return num(x)
 }
 
 // celsius converts kelvin to degrees Celsius (T − 273.15 K, SI brochure,

@@ -28,13 +28,14 @@ func columns(res *raytrace.Result) []string {
 func writeViewFactors(dir string, res *raytrace.Result, pairs bool) ([]string, error) {
 	var written []string
 	cols := columns(res)
+	nm := namesFor(res.Options.Optics != nil)
 	if len(res.Nodes) <= SquareLimit {
 		for _, f := range []struct {
 			name  string
 			value func(raytrace.Factor) float64
 		}{
-			{"viewfactors.csv", func(f raytrace.Factor) float64 { return f.F }},
-			{"viewfactors_halfwidth.csv", func(f raytrace.Factor) float64 { return f.HalfWidth }},
+			{nm.stem + ".csv", func(f raytrace.Factor) float64 { return f.F }},
+			{nm.stem + "_halfwidth.csv", func(f raytrace.Factor) float64 { return f.HalfWidth }},
 		} {
 			err := writeCSV(filepath.Join(dir, f.name), func(emit func(...string)) error {
 				emit(append([]string{"from"}, cols...)...)
@@ -56,9 +57,9 @@ func writeViewFactors(dir string, res *raytrace.Result, pairs bool) ([]string, e
 	if !pairs {
 		return written, nil
 	}
-	err := atomicfile.Write(filepath.Join(dir, "viewfactors_pairs.csv"), func(w io.Writer) error {
+	err := atomicfile.Write(filepath.Join(dir, nm.stem+"_pairs.csv"), func(w io.Writer) error {
 		lw := newLineWriter(w)
-		lw.buf = append(lw.buf, "from,to,F,F_lo,F_hi,stderr,halfwidth,hits,rays\n"...)
+		lw.buf = append(lw.buf, "from,to,"+nm.symbol+","+nm.symbol+"_lo,"+nm.symbol+"_hi,stderr,halfwidth,hits,rays\n"...)
 		var werr error
 		for i, n := range res.Nodes {
 			res.Row(i, func(j int, f raytrace.Factor) {
@@ -84,6 +85,6 @@ func writeViewFactors(dir string, res *raytrace.Result, pairs bool) ([]string, e
 	if err != nil {
 		return nil, err
 	}
-	written = append(written, "viewfactors_pairs.csv")
+	written = append(written, nm.stem+"_pairs.csv")
 	return written, nil
 }

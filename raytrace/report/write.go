@@ -64,10 +64,11 @@ func Write(dir string, o Outputs) ([]string, error) {
 			return nil, err
 		}
 		written = append(written, vf...)
-		if err := writeRawMTX(dir, t.Result); err != nil {
+		name, err := writeRawMTX(dir, t.Result)
+		if err != nil {
 			return nil, err
 		}
-		written = append(written, "viewfactors.mtx")
+		written = append(written, name)
 		if len(nodes) <= SquareLimit && !o.Compact {
 			if err := writeTallies(dir, t.Result, analysis.SurfaceNames(o.Input.Mesh)); err != nil {
 				return nil, err
