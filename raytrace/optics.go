@@ -24,6 +24,11 @@ type Optics struct {
 	Transmittance float64 `json:"transmittance,omitempty"`
 }
 
+// String describes the optics in the words of the case file.
+func (o Optics) String() string {
+	return fmt.Sprintf("emissivity %g, specular %g, transmittance %g", o.Emissivity, o.Specular, o.Transmittance)
+}
+
 // Check reports a property outside its range.
 func (o Optics) Check() error {
 	switch {

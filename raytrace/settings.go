@@ -8,6 +8,7 @@ import (
 	"maps"
 	"reflect"
 	"slices"
+	"strings"
 )
 
 // SettingsVersion is the version of the Settings layout and of the way a
@@ -193,14 +194,37 @@ func baseName(p string) string {
 }
 
 // Diff lists, field by field, how s differs from old, in words such as
-// "rays changed from 1000 to 2000"; nil when they are equal.
+// "rays changed from 1000 to 2000" (per key for maps: "optics of wall
+// changed from … to …"); nil when they are equal.
 func (s Settings) Diff(old Settings) []string {
 	a, b := reflect.ValueOf(s.WithDefaults()), reflect.ValueOf(old.WithDefaults())
 	t := a.Type()
 	var d []string
 	for i := range a.NumField() {
-		if !reflect.DeepEqual(a.Field(i).Interface(), b.Field(i).Interface()) {
-			d = append(d, fmt.Sprintf("%s changed from %v to %v", t.Field(i).Tag.Get("json"), b.Field(i).Interface(), a.Field(i).Interface()))
+		x, y := a.Field(i), b.Field(i)
+		if reflect.DeepEqual(x.Interface(), y.Interface()) {
+			continue
+		}
+		name, _, _ := strings.Cut(t.Field(i).Tag.Get("json"), ",")
+		if x.Kind() != reflect.Map {
+			d = append(d, fmt.Sprintf("%s changed from %v to %v", name, y.Interface(), x.Interface()))
+			continue
+		}
+		keys := map[string]bool{}
+		for _, k := range append(x.MapKeys(), y.MapKeys()...) {
+			keys[k.String()] = true
+		}
+		for _, k := range slices.Sorted(maps.Keys(keys)) {
+			kv := reflect.ValueOf(k)
+			xv, yv := x.MapIndex(kv), y.MapIndex(kv)
+			switch {
+			case !yv.IsValid():
+				d = append(d, fmt.Sprintf("%s of %s added: %v", name, k, xv.Interface()))
+			case !xv.IsValid():
+				d = append(d, fmt.Sprintf("%s of %s removed (was %v)", name, k, yv.Interface()))
+			case !reflect.DeepEqual(xv.Interface(), yv.Interface()):
+				d = append(d, fmt.Sprintf("%s of %s changed from %v to %v", name, k, yv.Interface(), xv.Interface()))
+			}
 		}
 	}
 	return d

@@ -430,3 +430,67 @@ func TestDropConductors(t *testing.T) {
 		}
 	}
 }
+
+// A case with mirror surfaces from the command line: two plates across a
+// box whose side walls are near-perfect mirrors exchange as infinite
+// parallel plates, Q = σA(T₁⁴ − T₂⁴)/(1/ε₁ + 1/ε₂ − 1) (Siegel & Howell,
+// Thermal Radiation Heat Transfer, the chapter on specular surfaces; from
+// memory). The run writes absorption factors, not view factors; a changed
+// emissivity now changes the tallies, so solve refuses to reuse them.
+func TestRunMirrorWalls(t *testing.T) {
+	dir := t.TempDir()
+	f, _ := os.Create(filepath.Join(dir, "box.obj"))
+	if err := mesh.WriteOBJ(f, mesh.Box("", geometry.Box{Max: geometry.Vec3{X: 1, Y: 1, Z: 0.5}}, 2, true)); err != nil {
+		t.Fatal(err)
+	}
+	f.Close()
+	caseText := `[model]
+files = ["box.obj"]
+[rays]
+per_node = 40000
+[defaults]
+emissivity = 1e-9
+specular = 1
+adiabatic = true
+[surfaces.zmin]
+emissivity = 0.5
+specular = 0
+temperature = 600
+[surfaces.zmax]
+emissivity = 0.3
+temperature = 300
+`
+	path := filepath.Join(dir, "mirrors.toml")
+	os.WriteFile(path, []byte(caseText), 0o644)
+	out := filepath.Join(dir, "out")
+	if code, so, se := runCLI("run", path, "--quiet", "-o", out); code != 0 {
+		t.Fatalf("run: exit %d\n%s\n%s", code, so, se)
+	}
+	s := readSurfaces(t, filepath.Join(out, "surfaces.csv"))
+	want := exchange.Sigma * (math.Pow(600, 4) - math.Pow(300, 4)) / (1/0.5 + 1/0.3 - 1)
+	q, hw := val(t, s["zmin"]["Q_W"]), val(t, s["zmin"]["Q_halfwidth_W"])
+	if math.Abs(q-want) > 2*hw || hw > 0.01*want {
+		t.Errorf("Q(zmin) = %.5g ± %.3g W, closed form %.5g W", q, hw, want)
+	}
+	if j := s["zmin"]["J_W_per_m2"]; j != "" {
+		t.Errorf("a radiosity %q is written for absorption factors", j)
+	}
+	for _, name := range []string{"absorption.csv", "absorption_pairs.csv", "absorption_smoothed.csv", "absorption_smoothed.mtx", "conductances.csv"} {
+		if _, err := os.Stat(filepath.Join(out, name)); err != nil {
+			t.Errorf("missing %s", name)
+		}
+	}
+	if _, err := os.Stat(filepath.Join(out, "viewfactors.csv")); err == nil {
+		t.Error("viewfactors.csv written for absorption factors")
+	}
+	if b := mustRead(t, filepath.Join(out, "summary.json")); !bytes.Contains(b, []byte(`"factors": "absorption"`)) {
+		t.Error(`summary.json does not say "factors": "absorption"`)
+	}
+	os.WriteFile(path, []byte(strings.Replace(caseText, "emissivity = 0.3", "emissivity = 0.4", 1)), 0o644)
+	if code, _, se := runCLI("solve", path, "-o", out); code != 1 || !strings.Contains(se, "optics of zmax changed from emissivity 0.3") {
+		t.Errorf("solve after an emissivity change: exit %d, %s", code, se)
+	}
+	if code, _, se := runCLI("solve", path, "-o", out, "--viewfactors", filepath.Join(out, "absorption.csv")); code != 1 || !strings.Contains(se, "view factors cannot describe") {
+		t.Errorf("solve with given view factors: exit %d, %s", code, se)
+	}
+}

@@ -231,12 +231,16 @@ func (in *Input) Describe() string {
 
 // Notes are things about the case a user may not have meant: the back of a
 // two-sided surface taking the default emissivity while its front has its
-// own.
+// own; and that rays are followed through reflections, which changes what
+// the matrices hold.
 func (in *Input) Notes() []string {
 	if in.Case == nil {
 		return nil
 	}
 	var out []string
+	if in.Settings.Optics != nil {
+		out = append(out, "rays are followed through reflections and transmissions (a specular or transmitting surface, or follow_reflections): the matrices are absorption factors B (absorption*.csv), not view factors")
+	}
 	for _, name := range SurfaceNames(in.Mesh) {
 		front := in.Case.Surfaces[name]
 		back, hasBack := in.Case.Surfaces[name+".back"]
