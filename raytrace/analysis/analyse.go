@@ -1,6 +1,7 @@
 package analysis
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -32,6 +33,10 @@ type Result struct {
 	// Absorption says the matrices hold absorption factors B_ij (rays
 	// followed through reflections) rather than view factors F_ij.
 	Absorption bool
+	// Suns holds, per [[sun]] of the case, the power each node absorbs of
+	// it and the steady state with those loads; Solution, THalf and QHalf
+	// are those of the first sun.
+	Suns []SunState
 	// Conductors are the total exchange areas A_iℱ_ij in m², sparse and
 	// symmetric, with those to the ambient.
 	Conductors *exchange.Conductors
@@ -83,15 +88,16 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 	}
 	sm := sms[0]
 	var reps []*smooth.Result
+	var repIndex []int
 	var notes []string
 	for r := range res.Replicas {
 		if err := errs[r+1]; err != nil {
 			notes = append(notes, fmt.Sprintf("replicate %d skipped: %v", r, err))
 			continue
 		}
-		reps = append(reps, sms[r+1])
+		reps, repIndex = append(reps, sms[r+1]), append(repIndex, r)
 	}
-	a, err := in.solve(res.Nodes, sm, reps, open, absorption, res.Options.Confidence)
+	a, err := in.solve(res.Nodes, sm, reps, repIndex, open, absorption, res.Options.Confidence)
 	if err != nil {
 		return nil, nameNode(err, res.Nodes, res)
 	}
@@ -123,7 +129,10 @@ func smoothTally(weight []float64, t *raytrace.Tally, open bool) (*smooth.Result
 
 // solve solves the exchange for the pooled smoothed matrix and every
 // replicate's, and computes exchange areas.
-func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.Result, open, absorption bool, confidence float64) (*Result, error) {
+//
+// reps are the replicates' smoothed matrices that smoothed, repIndex their
+// replicate numbers (for the suns' replicate loads).
+func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.Result, repIndex []int, open, absorption bool, confidence float64) (*Result, error) {
 	p, info, err := problem(in.Case, in.Mesh, nodes, sm, open)
 	if err != nil {
 		return nil, err
@@ -136,46 +145,77 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 	if absorption {
 		area, eps = exchange.EmissionAreas(p.Area, p.Emissivity), ones(len(p.Area))
 	}
-	// Job 0 solves the pooled matrix, job 1 computes the exchange areas,
-	// job 2+r solves replicate r: independent work, run side by side.
-	sols, errs := make([]*exchange.Solution, 2+len(reps)), make([]error, 2+len(reps))
-	parallel(len(sols), func(k int) {
-		switch {
-		case k == 0:
-			sols[0], errs[0] = exchange.Solve(p)
-		case k == 1 && (in.Case.Output.Conductances == nil || *in.Case.Output.Conductances):
-			a.Conductors, errs[1] = exchange.TotalExchange(area, eps, p.F, p.Ambient, in.Case.Output.DropConductors)
-		case k >= 2:
-			pr, _, err := problem(in.Case, in.Mesh, nodes, reps[k-2], open)
-			pr.Absorption = absorption
-			if err == nil {
-				sols[k], err = exchange.Solve(pr)
-			}
-			errs[k] = err
+	if len(in.Beams) > 0 && in.Sunlight == nil {
+		if err := in.TraceSun(context.Background(), 0); err != nil {
+			return nil, err
 		}
+	}
+	// Job 0 computes the exchange areas; then, for every steady state (one,
+	// or one per sun), a job solves the pooled matrix and one each
+	// replicate's: independent work, run side by side.
+	states := in.states(len(nodes))
+	per := 1 + len(reps)
+	sols, errs := make([]*exchange.Solution, len(states)*per), make([]error, len(states)*per)
+	var cerr error
+	parallel(1+len(sols), func(k int) {
+		if k == 0 {
+			if in.Case.Output.Conductances == nil || *in.Case.Output.Conductances {
+				a.Conductors, cerr = exchange.TotalExchange(area, eps, p.F, p.Ambient, in.Case.Output.DropConductors)
+			}
+			return
+		}
+		k--
+		st, r := k/per, k%per-1 // r = −1: the pooled matrix
+		pr := p
+		if r >= 0 {
+			if pr, _, errs[k] = problem(in.Case, in.Mesh, nodes, reps[r], open); errs[k] != nil {
+				return
+			}
+			pr.Absorption = absorption
+			pr.Load = states[st].load(repIndex[r])
+		} else {
+			pr.Load = states[st].load(-1)
+		}
+		sols[k], errs[k] = exchange.Solve(pr)
 	})
-	if errs[0] != nil {
-		return nil, nameNode(errs[0], nodes, nil)
+	if cerr != nil {
+		return nil, nameNode(cerr, nodes, nil)
 	}
-	if errs[1] != nil {
-		return nil, nameNode(errs[1], nodes, nil)
-	}
-	a.Solution = sols[0]
 	if a.Conductors == nil {
 		a.Notes = append(a.Notes, "conductances skipped (output.conductances = false or --no-conductances)")
 	}
-	var Ts, Qs [][]float64
-	for r := range reps {
-		if err := errs[2+r]; err != nil {
-			a.Notes = append(a.Notes, fmt.Sprintf("replicate %d skipped: %v", r, err))
-			continue
+	for st, s := range states {
+		if err := errs[st*per]; err != nil {
+			if s.name != "" {
+				err = fmt.Errorf("sun %s: %w", s.name, err)
+			}
+			return nil, nameNode(err, nodes, nil)
 		}
-		Ts, Qs = append(Ts, sols[2+r].T), append(Qs, sols[2+r].Q)
-	}
-	if len(Ts) >= 2 {
-		a.Replicates = len(Ts)
-		a.THalf = TInterval(Ts, confidence)
-		a.QHalf = TInterval(Qs, confidence)
+		sun := SunState{Name: s.name, Solution: sols[st*per]}
+		var Ts, Qs [][]float64
+		for r := range reps {
+			if err := errs[st*per+1+r]; err != nil {
+				a.Notes = append(a.Notes, fmt.Sprintf("replicate %d skipped: %v", repIndex[r], err))
+				continue
+			}
+			Ts, Qs = append(Ts, sols[st*per+1+r].T), append(Qs, sols[st*per+1+r].Q)
+		}
+		if len(Ts) >= 2 {
+			a.Replicates = len(Ts)
+			sun.THalf = TInterval(Ts, confidence)
+			sun.QHalf = TInterval(Qs, confidence)
+		}
+		if ir := in.Sunlight; ir != nil {
+			sun.Load, sun.LoadHalf = make([]float64, len(nodes)), make([]float64, len(nodes))
+			for j := range nodes {
+				sun.Load[j], sun.LoadHalf[j] = ir.Absorbed(st, j)
+			}
+			sun.Escaped = ir.Escaped(st)
+			a.Suns = append(a.Suns, sun)
+		}
+		if st == 0 {
+			a.Solution, a.THalf, a.QHalf = sun.Solution, sun.THalf, sun.QHalf
+		}
 	}
 	return a, nil
 }

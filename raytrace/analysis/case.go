@@ -26,6 +26,10 @@ type Case struct {
 	Output   OutputSpec             `toml:"output"`
 	Defaults SurfaceSpec            `toml:"defaults"`
 	Surfaces map[string]SurfaceSpec `toml:"surfaces"`
+	// Suns are parallel beams from far away ([[sun]] tables): positions
+	// of the sun through a day or around an orbit, each its own steady
+	// state.
+	Suns []SunSpec `toml:"sun"`
 }
 
 // ModelSpec lists the mesh files and how to read them.
@@ -98,12 +102,17 @@ type SurfaceSpec struct {
 	// reflections (raytrace.Optics).
 	Specular      *float64 `toml:"specular"`
 	Transmittance *float64 `toml:"transmittance"`
-	TwoSided      *bool    `toml:"two_sided"`
-	Flip          *bool    `toml:"flip"`
-	Temperature   *float64 `toml:"temperature"`
-	HeatFlux      *float64 `toml:"heat_flux"`
-	HeatFlow      *float64 `toml:"heat_flow"`
-	Adiabatic     *bool    `toml:"adiabatic"`
+	// The solar band's optics, for [[sun]] beams: absorptance, the mirror
+	// share of reflection, and a sheet's transmittance.
+	SolarAbsorptance   *float64 `toml:"solar_absorptance"`
+	SolarSpecular      *float64 `toml:"solar_specular"`
+	SolarTransmittance *float64 `toml:"solar_transmittance"`
+	TwoSided           *bool    `toml:"two_sided"`
+	Flip               *bool    `toml:"flip"`
+	Temperature        *float64 `toml:"temperature"`
+	HeatFlux           *float64 `toml:"heat_flux"`
+	HeatFlow           *float64 `toml:"heat_flow"`
+	Adiabatic          *bool    `toml:"adiabatic"`
 	// Split makes several nodes of the surface: "grid NxM" or "patches".
 	Split string `toml:"split"`
 }
@@ -168,6 +177,9 @@ func (c *Case) Validate() error {
 	if u := c.Output.Up; u != "" && u != "z" && u != "y" {
 		return keyErr([]string{"output", "up"}, "up is %q; use \"z\" or \"y\"", u)
 	}
+	if err := c.checkSuns(); err != nil {
+		return err
+	}
 	if err := checkSpec([]string{"defaults"}, c.Defaults); err != nil {
 		return err
 	}
@@ -184,14 +196,25 @@ func checkSpec(table []string, sp SurfaceSpec) error {
 	if e := sp.Emissivity; e != nil && !(*e > 0 && *e <= 1) {
 		return keyErr(key("emissivity"), "emissivity %v is outside (0, 1]", *e)
 	}
-	if v := sp.Specular; v != nil && !(*v >= 0 && *v <= 1) {
-		return keyErr(key("specular"), "specular %v is outside [0, 1] (the share of reflection that is mirror-like)", *v)
-	}
-	if v := sp.Transmittance; v != nil && !(*v >= 0 && *v < 1) {
-		return keyErr(key("transmittance"), "transmittance %v is outside [0, 1)", *v)
-	}
-	if e, v := sp.Emissivity, sp.Transmittance; e != nil && v != nil && *e+*v > 1 {
-		return keyErr(key("transmittance"), "emissivity %v and transmittance %v add up to more than 1", *e, *v)
+	for _, band := range []struct {
+		absorb, spec, trans      *float64
+		absorbKey, specKey, tKey string
+	}{
+		{sp.Emissivity, sp.Specular, sp.Transmittance, "emissivity", "specular", "transmittance"},
+		{sp.SolarAbsorptance, sp.SolarSpecular, sp.SolarTransmittance, "solar_absorptance", "solar_specular", "solar_transmittance"},
+	} {
+		if v := band.absorb; v != nil && !(*v > 0 && *v <= 1) {
+			return keyErr(key(band.absorbKey), "%s %v is outside (0, 1]", band.absorbKey, *v)
+		}
+		if v := band.spec; v != nil && !(*v >= 0 && *v <= 1) {
+			return keyErr(key(band.specKey), "%s %v is outside [0, 1] (the share of reflection that is mirror-like)", band.specKey, *v)
+		}
+		if v := band.trans; v != nil && !(*v >= 0 && *v < 1) {
+			return keyErr(key(band.tKey), "%s %v is outside [0, 1)", band.tKey, *v)
+		}
+		if e, v := band.absorb, band.trans; e != nil && v != nil && *e+*v > 1 {
+			return keyErr(key(band.tKey), "%s %v and %s %v add up to more than 1", band.absorbKey, *e, band.tKey, *v)
+		}
 	}
 	if t := sp.Temperature; t != nil && !(*t > 0 && *t <= maxTemperature) {
 		return keyErr(key("temperature"), "temperature %v K must be positive (kelvin) and at most %g", *t, maxTemperature)
@@ -250,6 +273,8 @@ func (c *Case) Spec(name string) SurfaceSpec {
 	for _, f := range []struct{ dst, src **float64 }{
 		{&out.Emissivity, &own.Emissivity}, {&out.Temperature, &own.Temperature},
 		{&out.Specular, &own.Specular}, {&out.Transmittance, &own.Transmittance},
+		{&out.SolarAbsorptance, &own.SolarAbsorptance}, {&out.SolarSpecular, &own.SolarSpecular},
+		{&out.SolarTransmittance, &own.SolarTransmittance},
 		{&out.HeatFlux, &own.HeatFlux}, {&out.HeatFlow, &own.HeatFlow},
 	} {
 		if *f.src != nil {

@@ -215,7 +215,7 @@ func (in *Input) AnalyseFactors(given []Given) (*Result, error) {
 		sm.MovedAmbient[i] = math.NaN()
 	}
 	sm.MaxMoved = math.NaN()
-	a, err := in.solve(nodes, sm, nil, open, false, in.Settings.WithDefaults().Confidence)
+	a, err := in.solve(nodes, sm, nil, nil, open, false, in.Settings.WithDefaults().Confidence)
 	if err != nil {
 		return nil, err
 	}

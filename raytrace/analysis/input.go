@@ -28,6 +28,12 @@ type Input struct {
 	// (nil without one); NodeMapFile is that file, hashed with the meshes.
 	NodeOf      []string
 	NodeMapFile string
+	// Beams are the case's suns and Solar the solar-band optics of every
+	// surface side (nil without suns); Sunlight is what the nodes absorb
+	// of them once traced (TraceSun).
+	Beams    []raytrace.Beam
+	Solar    map[string]raytrace.Optics
+	Sunlight *raytrace.Irradiation
 }
 
 // Open validates c, loads its meshes, checks its surface tables against
@@ -89,6 +95,9 @@ func Open(c *Case) (*Input, error) {
 	if in.Settings.Optics, err = c.optics(names); err != nil {
 		return nil, err
 	}
+	if in.Beams, in.Solar, err = c.sunlight(names); err != nil {
+		return nil, err
+	}
 	if nm := c.Model.NodeMap; nm != "" {
 		in.NodeMapFile = nm
 		if !filepath.IsAbs(nm) {
@@ -134,7 +143,7 @@ func (c *Case) checkSurfaces(m *mesh.Mesh) error {
 			if sp.conditions() > 0 {
 				return keyErr(table, "the two sides of %s share one temperature: give its condition in [surfaces.%q]", base, base)
 			}
-			if sp.Transmittance != nil {
+			if sp.Transmittance != nil || sp.SolarTransmittance != nil {
 				return keyErr(table, "a sheet transmits alike both ways: give the transmittance of %s in [surfaces.%q]", base, base)
 			}
 		case m.SurfaceIndex(name) < 0:

@@ -55,6 +55,10 @@ type Problem struct {
 	// reflections and transmissions (rays followed through them), rather
 	// than view factors; reciprocity then reads ε_iA_iB_ij = ε_jA_jB_ji.
 	Absorption bool
+	// Load, if set, is the power each node absorbs from outside the
+	// infrared exchange in W (sunlight): it enters every node's energy
+	// balance (see solveLoaded).
+	Load []float64
 }
 
 // Solution holds per-node results: T in K, J and q in W/m², Q in W (net
@@ -62,9 +66,13 @@ type Problem struct {
 type Solution struct {
 	T, J, Q, q []float64
 	// ToAmbient is the net power the ambient absorbs, W. Energy balance:
-	// Σ_k Q_k = ToAmbient; Imbalance is their difference over max |Q_k|.
+	// Σ_k Q_k + Absorbed = ToAmbient; Imbalance is the difference of the
+	// infrared flows over max |Q_k|.
 	ToAmbient float64
 	Imbalance float64
+	// Absorbed is the total of the loads, W: with them the balance reads
+	// Σ_k Q_k + Absorbed = ToAmbient.
+	Absorbed float64
 	Dense     bool // solved by LU rather than iteratively
 }
 

@@ -34,6 +34,9 @@ func (s *system) add(r, c int, v float64) {
 
 // Solve solves the enclosure.
 func Solve(p Problem) (*Solution, error) {
+	if p.Load != nil {
+		return solveLoaded(p)
+	}
 	if p.Absorption {
 		return solveAbsorption(p)
 	}
