@@ -211,6 +211,10 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 				sun.Load[j], sun.LoadHalf[j] = ir.Absorbed(st, j)
 			}
 			sun.Escaped = ir.Escaped(st)
+			sun.Beam, sun.LaunchArea, sun.BackShare = ir.Beams[st], ir.LaunchArea[st], ir.Back[st]
+			if sun.BackShare > raytrace.BackFaceThreshold {
+				a.Notes = append(a.Notes, fmt.Sprintf("sun %s: %.3g%% of its rays met the back of a one-sided surface, where no node absorbs them: normal for the outside of an enclosure modelled from within; declare a sheet lit from behind two-sided (and give its back a solar_absorptance)", s.name, 100*sun.BackShare))
+			}
 			a.Suns = append(a.Suns, sun)
 		}
 		if st == 0 {

@@ -126,6 +126,11 @@ type SunState struct {
 	Escaped        float64
 	Solution       *exchange.Solution
 	THalf, QHalf   []float64
+	// Beam is the sun as traced; LaunchArea its launch rectangle (m²) and
+	// BackShare the share of its rays that ended on the back of a
+	// one-sided surface.
+	Beam                  raytrace.Beam
+	LaunchArea, BackShare float64
 }
 
 // state is one steady state to solve: its name and its loads per node

@@ -73,7 +73,7 @@ type Solution struct {
 	// Absorbed is the total of the loads, W: with them the balance reads
 	// Σ_k Q_k + Absorbed = ToAmbient.
 	Absorbed float64
-	Dense     bool // solved by LU rather than iteratively
+	Dense    bool // solved by LU rather than iteratively
 }
 
 // Flux returns the net outgoing flux of node k in W/m².

@@ -201,6 +201,17 @@ func writePictures(dir string, in *analysis.Input, nodes []raytrace.Node, res *r
 			return nil, err
 		}
 		written = append(written, PictureName("heat-flux"))
+		for _, s := range a.Suns {
+			load := map[string]float64{}
+			for i, n := range nodes {
+				load[n.Name] = s.Load[i] / n.Area
+			}
+			name := "model_solar_" + s.Name + ".png"
+			if err := WritePNG(filepath.Join(dir, name), p.ByField(view, 1024, 768, nodes, load, "sun "+s.Name+" [W/m²]", false)); err != nil {
+				return nil, err
+			}
+			written = append(written, name)
+		}
 	}
 	if len(nodes) <= SquareLimit {
 		var rows, cols []string
@@ -240,6 +251,24 @@ func writePictures(dir string, in *analysis.Input, nodes []raytrace.Node, res *r
 		return nil, err
 	}
 	return append(written, "model.vtp"), nil
+}
+
+// solarCells are one sun's absorbed flux (W/m² of the node's area) on
+// each facet's front and back node, and its temperature field.
+func solarCells(s analysis.SunState, front, back []int32, nodes []raytrace.Node) []mesh.CellArray {
+	n := len(front)
+	flux, fluxBack, T := make([]float64, n), make([]float64, n), make([]float64, n)
+	for f := range n {
+		flux[f], fluxBack[f], T[f] = math.NaN(), math.NaN(), math.NaN()
+		if i := front[f]; i >= 0 {
+			flux[f], T[f] = s.Load[i]/nodes[i].Area, s.Solution.T[i]
+		}
+		if j := back[f]; j >= 0 {
+			fluxBack[f] = s.Load[j] / nodes[j].Area
+		}
+	}
+	return []mesh.CellArray{{Name: "solar_" + s.Name + "_W_per_m2", Float: flux},
+		{Name: "solar_" + s.Name + "_back_W_per_m2", Float: fluxBack}, {Name: "T_" + s.Name + "_K", Float: T}}
 }
 
 // writeVTP writes the facets with their surface and node (ids and names),
@@ -298,6 +327,9 @@ func writeVTP(path string, m *mesh.Mesh, nodes []raytrace.Node, res *raytrace.Re
 	if a != nil {
 		cells = append(cells, mesh.CellArray{Name: "T_K", Float: T}, mesh.CellArray{Name: "q_W_per_m2", Float: q}, mesh.CellArray{Name: "Q_W_of_node", Float: Q},
 			mesh.CellArray{Name: "q_back_W_per_m2", Float: qb}, mesh.CellArray{Name: "Q_back_W_of_node", Float: Qb})
+		for _, s := range a.Suns {
+			cells = append(cells, solarCells(s, front, back, nodes)...)
+		}
 	}
 	return atomicfile.Write(path, func(w io.Writer) error {
 		return mesh.WriteVTP(w, m, cells, "hemiray: cell arrays surface_name, node_name and back_node_name name what the ids number")

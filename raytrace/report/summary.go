@@ -153,6 +153,22 @@ func analysisSummary(a *analysis.Result) map[string]any {
 		}
 		out["conductances"] = cs
 	}
+	var suns []map[string]any
+	for _, s := range a.Suns {
+		absorbed := 0.0
+		for _, l := range s.Load {
+			absorbed += l
+		}
+		d := s.Beam.Direction.Normalize().Scale(-1)
+		suns = append(suns, map[string]any{
+			"name": s.Name, "toward": []float64{d.X, d.Y, d.Z}, "irradiance_W_per_m2": s.Beam.Irradiance, "rays": s.Beam.Rays,
+			"launch_area_m2": s.LaunchArea, "absorbed_W": absorbed, "escaped_W": s.Escaped, "backface_share": s.BackShare,
+			"heat_to_ambient_W": s.Solution.ToAmbient, "energy_imbalance": s.Solution.Imbalance,
+		})
+	}
+	if suns != nil {
+		out["suns"] = suns
+	}
 	return out
 }
 

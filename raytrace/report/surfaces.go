@@ -16,14 +16,33 @@ import (
 var SurfaceColumns = []string{"node", "area_m2", "emissivity", "condition", "T_set_K", "q_set_W_per_m2", "Q_set_W",
 	"T_K", "T_C", "T_halfwidth_K", "J_W_per_m2", "q_W_per_m2", "Q_W", "Q_halfwidth_W"}
 
-// writeSurfaces writes surfaces.csv: per node its inputs and results.
+// writeSurfaces writes surfaces.csv: per node its inputs and results (with
+// suns, those of the first sun's steady state).
 func writeSurfaces(dir string, a *analysis.Result) error {
-	return writeCSV(filepath.Join(dir, "surfaces.csv"), func(emit func(...string)) error {
-		emit(SurfaceColumns...)
+	var sun *analysis.SunState
+	if len(a.Suns) > 0 {
+		sun = &a.Suns[0]
+	}
+	return writeSurfacesFile(filepath.Join(dir, "surfaces.csv"), a, sun)
+}
+
+// writeSurfacesFile writes one steady state: a's, or sun's when given
+// (then with the absorbed solar power in two more columns).
+func writeSurfacesFile(path string, a *analysis.Result, sun *analysis.SunState) error {
+	sol, THalf, QHalf := a.Solution, a.THalf, a.QHalf
+	if sun != nil {
+		sol, THalf, QHalf = sun.Solution, sun.THalf, sun.QHalf
+	}
+	return writeCSV(path, func(emit func(...string)) error {
+		head := SurfaceColumns
+		if sun != nil {
+			head = append(append([]string{}, head...), "solar_W", "solar_halfwidth_W")
+		}
+		emit(head...)
 		for i, n := range a.Nodes {
 			th, qh := "", ""
-			if a.THalf != nil {
-				th, qh = num(a.THalf[i]), num(a.QHalf[i])
+			if THalf != nil {
+				th, qh = num(THalf[i]), num(QHalf[i])
 			}
 			in := a.Info[i]
 			set := make([]string, 3) // T, q, Q given
@@ -35,9 +54,13 @@ func writeSurfaces(dir string, a *analysis.Result) error {
 			case strings.HasPrefix(in.Condition, "heat_flow"):
 				set[2] = num(in.Value)
 			}
-			T := a.Solution.T[i]
-			emit(n.Name, num(n.Area), num(in.Emissivity), in.Condition, set[0], set[1], set[2], num(T), num(celsius(T)), th,
-				optional(a.Solution.J[i]), num(a.Solution.Flux(i)), num(a.Solution.Q[i]), qh)
+			T := sol.T[i]
+			rec := []string{n.Name, num(n.Area), num(in.Emissivity), in.Condition, set[0], set[1], set[2], num(T), num(celsius(T)), th,
+				optional(sol.J[i]), num(sol.Flux(i)), num(sol.Q[i]), qh}
+			if sun != nil {
+				rec = append(rec, num(sun.Load[i]), num(sun.LoadHalf[i]))
+			}
+			emit(rec...)
 		}
 		return nil
 	})

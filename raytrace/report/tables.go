@@ -47,12 +47,17 @@ func HeatBalance(w io.Writer, a *analysis.Result) {
 	for _, q := range a.Solution.Q {
 		sum += q
 	}
-	if a.Open {
+	switch {
+	case a.Solution.Absorbed != 0:
+		fmt.Fprintf(w, "\nnet heat leaving all nodes %.6g W and sunlight they absorb %.6g W; absorbed by the ambient (%.2f K) %.6g W; imbalance %.1e of the largest flow\n",
+			sum, a.Solution.Absorbed, a.AmbientT, a.Solution.ToAmbient, a.Solution.Imbalance)
+	case a.Open:
 		fmt.Fprintf(w, "\nnet heat leaving all nodes %.6g W; absorbed by the ambient (%.2f K) %.6g W; imbalance %.1e of the largest flow\n",
 			sum, a.AmbientT, a.Solution.ToAmbient, a.Solution.Imbalance)
-	} else {
+	default:
 		fmt.Fprintf(w, "\nclosed model (no ray escaped): net heat of all nodes %.3g W, imbalance %.1e of the largest flow\n", sum, a.Solution.Imbalance)
 	}
+	sunLines(w, a)
 	if a.Replicates > 0 {
 		fmt.Fprintf(w, "± are %.0f%% t-intervals from %d independent replicates, each smoothed and solved\n", 100*a.Confidence, a.Replicates)
 	}

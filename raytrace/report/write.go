@@ -87,6 +87,11 @@ func Write(dir string, o Outputs) ([]string, error) {
 			return nil, err
 		}
 		written = append(written, "surfaces.csv")
+		solar, err := writeSolar(dir, a)
+		if err != nil {
+			return nil, err
+		}
+		written = append(written, solar...)
 		mtx, err := writeAnalysisMTX(dir, a)
 		if err != nil {
 			return nil, err
