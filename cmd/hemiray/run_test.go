@@ -185,6 +185,47 @@ func TestDemo(t *testing.T) {
 	}
 }
 
+// The second demo: the sun at two positions over an instrument with a
+// window and a mirror-like shield. Each sun has its steady state; the
+// insulated parts give off exactly the sunlight they absorb plus their own
+// heat, so each state balances; under the high sun light reaches the
+// detector through the window, under the low one the shield shades it.
+func TestInstrumentDemo(t *testing.T) {
+	if testing.Short() {
+		t.Skip("the demo traces 3.6 million rays")
+	}
+	dir := t.TempDir()
+	code, out, errOut := runCLI("demo", "--scenario", "instrument", "-o", dir, "--quiet")
+	if code != 0 {
+		t.Fatalf("demo: exit %d\n%s\n%s", code, out, errOut)
+	}
+	res := filepath.Join(dir, "results")
+	solar := readSurfaces(t, filepath.Join(res, "solar.csv"))
+	if w := val(t, solar["detector"]["high_W"]); !(w > 1) {
+		t.Errorf("the detector absorbs %v W under the high sun", w)
+	}
+	if w := val(t, solar["detector"]["low_W"]); w > 0.01 {
+		t.Errorf("the detector absorbs %v W under the shaded low sun", w)
+	}
+	for _, sun := range []string{"low", "high"} {
+		s := readSurfaces(t, filepath.Join(res, "surfaces_"+sun+".csv"))
+		if q := val(t, s["detector"]["Q_W"]); math.Abs(q-2) > 1e-9 {
+			t.Errorf("%s: the detector carries %v W, want 2", sun, q)
+		}
+		if q := val(t, s["shield"]["Q_W"]) + val(t, s["shield.back"]["Q_W"]); math.Abs(q) > 1e-9 {
+			t.Errorf("%s: the insulated shield gives off %v W net", sun, q)
+		}
+	}
+	for _, f := range []string{"absorption_smoothed.csv", "conductances.csv", "model_solar_low.png", "model_solar_high.png"} {
+		if _, err := os.Stat(filepath.Join(res, f)); err != nil {
+			t.Errorf("missing %s", f)
+		}
+	}
+	if vtp := mustRead(t, filepath.Join(res, "model.vtp")); !bytes.Contains(vtp, []byte(`Name="solar_high_W_per_m2"`)) {
+		t.Error("model.vtp lacks the high sun's absorbed flux")
+	}
+}
+
 // render draws a model by surface with the requested size, and by a result
 // field from a results folder.
 func TestRenderCommand(t *testing.T) {
