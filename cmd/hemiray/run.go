@@ -93,13 +93,16 @@ func solveCommand() *command {
 	c := &command{
 		Name:      "solve",
 		UsageLine: "solve CASE.toml [--viewfactors FILE.csv] [-o DIR]",
-		Short:     "smooth and solve from saved tallies or given view factors (no tracing)",
+		Short:     "smooth and solve from saved tallies or given view factors (no tracing but of suns)",
 		Long: `Solve reads the tallies a previous run or trace of the same case left in
 the output folder (tallies.bin), smooths them and solves the exchange with
 the case's current emissivities and boundary conditions, writing the files
 of run. Change emissivities, temperatures or heat loads and solve again in
 a second instead of tracing again; a change to the geometry, the nodes or
-the ray settings is refused, naming what changed.
+the ray settings is refused, naming what changed. Where rays are followed
+through reflections (a specular or transmitting surface), the infrared
+optics are part of the tallies: changing an emissivity is refused too. The
+case's suns take no tallies and are traced anew (seeded: the same loads).
 
 With --viewfactors FILE.csv the factors come from that file instead — from
 a handbook, a hand calculation or another code — in either layout hemiray
