@@ -16,22 +16,26 @@ import (
 	"github.com/hemiray/hemiray/raytrace/sample"
 )
 
-// Beam is a parallel beam of light from far away, the sun: it travels
-// along Direction with Irradiance watts per square metre on a plane
-// normal to it, and Rays rays sample it.
+// Beam is light from far away. A parallel beam (the sun) travels along
+// Direction with Irradiance watts per square metre on a plane normal to
+// it. A diffuse one (a uniform sky) comes alike from every direction, with
+// Irradiance on one side of a plate that sees nothing but it; Direction is
+// not used. Rays rays sample it.
 type Beam struct {
 	Name       string
 	Direction  geometry.Vec3 // the way the light travels; any length
-	Irradiance float64       // W/m², normal to the beam
+	Irradiance float64       // W/m²
 	Rays       int64
+	Diffuse    bool
 }
 
 // Irradiation is what the nodes absorb of each beam, with intervals.
 type Irradiation struct {
 	Beams []Beam
-	// LaunchArea is each beam's launch rectangle in m²: the model's
-	// outline seen along the beam, boxed. Each of its rays carries
-	// Irradiance·LaunchArea/Rays watts.
+	// LaunchArea is each beam's launch area in m²: for a parallel beam
+	// the model's outline seen along it, boxed; for a diffuse one a sphere
+	// round the model. Each of its rays carries Irradiance·LaunchArea/Rays
+	// watts.
 	LaunchArea []float64
 	// Back is, per beam, the share of its rays that ended on the back of a
 	// one-sided surface (inside a solid, or a surface whose normals point
@@ -79,10 +83,23 @@ func (ir *Irradiation) Replicate(q, b int) []float64 {
 // Replicates is the number of replicate tallies (0 without).
 func (ir *Irradiation) Replicates() int { return len(ir.res.Replicas) }
 
-// launch is the plane a beam's rays start from: corner o, spanned by u
-// and v, upstream of the whole model.
+// launch is where a beam's rays start: for a parallel beam the plane at
+// corner o spanned by u and v, upstream of the whole model, rays along d;
+// for a diffuse one the sphere of centre o and radius r round the model.
 type launch struct {
 	o, u, v, d geometry.Vec3
+	r          float64
+	sphere     bool
+}
+
+// launchSphere is a sphere round the model. Light of radiance L alike from
+// every direction enters it as if its inside emitted diffusely, πL per
+// unit area (a uniform diffuse field; common practice): a ray starts at a
+// uniform point and leaves along a cosine-weighted direction about the
+// inward normal.
+func launchSphere(bounds geometry.Box) (launch, float64) {
+	r := 0.5*bounds.Diagonal().Len()*1.01 + 1e-9
+	return launch{o: bounds.Center(), r: r, sphere: true}, 4 * math.Pi * r * r
 }
 
 // launchPlane boxes the model's outline seen along unit direction d on a
@@ -138,7 +155,7 @@ func Irradiate(ctx context.Context, m *mesh.Mesh, opts Options, beams []Beam, op
 	}
 	for _, b := range beams {
 		switch {
-		case !b.Direction.IsFinite() || !(b.Direction.Len() > 0):
+		case !b.Diffuse && (!b.Direction.IsFinite() || !(b.Direction.Len() > 0)):
 			return nil, fmt.Errorf("beam %s: direction %v", b.Name, b.Direction)
 		case !(b.Irradiance >= 0 && b.Irradiance < 1e15):
 			return nil, fmt.Errorf("beam %s: irradiance %v W/m²", b.Name, b.Irradiance)
@@ -163,7 +180,11 @@ func Irradiate(ctx context.Context, m *mesh.Mesh, opts Options, beams []Beam, op
 	ir := &Irradiation{Beams: beams, LaunchArea: make([]float64, len(beams)), Back: make([]float64, len(beams))}
 	planes := make([]launch, len(beams))
 	for b := range beams {
-		planes[b], ir.LaunchArea[b] = launchPlane(m.Bounds(), beams[b].Direction.Normalize())
+		if beams[b].Diffuse {
+			planes[b], ir.LaunchArea[b] = launchSphere(m.Bounds())
+		} else {
+			planes[b], ir.LaunchArea[b] = launchPlane(m.Bounds(), beams[b].Direction.Normalize())
+		}
 	}
 	reps := max(1, opts.Replicates)
 	// A work item is one batch of one beam's rays.
@@ -242,7 +263,7 @@ func (e *engine) beamRays(ctx context.Context, b int, pl *launch, lo, hi int64, 
 		}
 	} else {
 		st = sample.NewStream(e.opts.Seed^beamSalt, int64(id), lo/e.opts.BatchSize)
-		st.Skip(uint64(lo%e.opts.BatchSize) * 2)
+		st.Skip(uint64(lo%e.opts.BatchSize) * 4)
 	}
 	var qs [chunk]bvh.Query
 	var hs [chunk]bvh.Hit
@@ -257,7 +278,14 @@ func (e *engine) beamRays(ctx context.Context, b int, pl *launch, lo, hi int64, 
 			if sobol != nil {
 				sobol[r%reps].Point(uint64(r/reps), &u)
 			} else {
-				u[0], u[1] = st.Float64(), st.Float64()
+				u[0], u[1], u[2], u[3] = st.Float64(), st.Float64(), st.Float64(), st.Float64()
+			}
+			if pl.sphere {
+				x, y, z := sample.UniformSphere(u[0], u[1])
+				n := geometry.Vec3{X: -x, Y: -y, Z: -z} // inward
+				dx, dy, dz := sample.CosineHemisphere(u[2], u[3])
+				qs[i] = bvh.Query{O: pl.o.Sub(n.Scale(pl.r)), D: geometry.NewFrame(n).ToWorld(dx, dy, dz), TMax: math.Inf(1), Skip: -1}
+				continue
 			}
 			o := pl.o.Add(pl.u.Scale(u[0])).Add(pl.v.Scale(u[1]))
 			qs[i] = bvh.Query{O: o, D: pl.d, TMax: math.Inf(1), Skip: -1}
@@ -266,7 +294,7 @@ func (e *engine) beamRays(ctx context.Context, b int, pl *launch, lo, hi int64, 
 		for i := range k {
 			r := c + int64(i)
 			s := followStream(e.opts.Seed, id, r)
-			end, j := e.follow(pl.d, hs[i], &s)
+			end, j := e.follow(qs[i].D, hs[i], &s)
 			col := n + 1 // back
 			switch end {
 			case endAbsorbed:

@@ -153,3 +153,20 @@ func TestBeamDeterminism(t *testing.T) {
 		t.Error("beam tallies differ between 1 and 3 threads")
 	}
 }
+
+// Light alike from every direction, of irradiance E on a plate that sees
+// only it: a plate facing up, one metre over a black floor of its size,
+// absorbs αEA; the floor sees the sky but where the plate hides it, so it
+// absorbs E·A·(1 − F), F the view factor between the two squares (Howell's
+// catalogue, C-11; by reciprocity with the sky, common practice).
+func TestDiffuseSky(t *testing.T) {
+	const E, alpha = 300.0, 0.4
+	m := mesh.Rectangle("plate", v3(0, 0, 1), v3(1, 0, 0), v3(0, 1, 0), 1, 1)
+	if err := m.Append(mesh.Rectangle("floor", v3(0, 0, 0), v3(1, 0, 0), v3(0, 1, 0), 1, 1)); err != nil {
+		t.Fatal(err)
+	}
+	ir := irradiated(t, m, nil, map[string]Optics{"plate": {Emissivity: alpha}, "floor": {Emissivity: 1}},
+		Beam{Name: "sky", Irradiance: E, Rays: 4000000, Diffuse: true})
+	absorbs(t, ir, 0, "plate", alpha*E)
+	absorbs(t, ir, 0, "floor", E*(1-geometry.FParallelRectangles(1, 1, 1)))
+}

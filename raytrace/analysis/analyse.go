@@ -153,7 +153,7 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 	// Job 0 computes the exchange areas; then, for every steady state (one,
 	// or one per sun), a job solves the pooled matrix and one each
 	// replicate's: independent work, run side by side.
-	states := in.states(len(nodes))
+	states := in.states()
 	per := 1 + len(reps)
 	sols, errs := make([]*exchange.Solution, len(states)*per), make([]error, len(states)*per)
 	var cerr error
@@ -172,9 +172,9 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 				return
 			}
 			pr.Absorption = absorption
-			pr.Load = states[st].load(repIndex[r])
+			pr.Load = in.load(states[st], len(nodes), repIndex[r])
 		} else {
-			pr.Load = states[st].load(-1)
+			pr.Load = in.load(states[st], len(nodes), -1)
 		}
 		sols[k], errs[k] = exchange.Solve(pr)
 	})
@@ -191,7 +191,11 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 			}
 			return nil, nameNode(err, nodes, nil)
 		}
-		sun := SunState{Name: s.name, Solution: sols[st*per]}
+		sun := SunState{Name: s.name}
+		if in.Sunlight != nil {
+			sun = in.sunState(s, len(nodes))
+		}
+		sun.Solution = sols[st*per]
 		var Ts, Qs [][]float64
 		for r := range reps {
 			if err := errs[st*per+1+r]; err != nil {
@@ -205,13 +209,7 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 			sun.THalf = TInterval(Ts, confidence)
 			sun.QHalf = TInterval(Qs, confidence)
 		}
-		if ir := in.Sunlight; ir != nil {
-			sun.Load, sun.LoadHalf = make([]float64, len(nodes)), make([]float64, len(nodes))
-			for j := range nodes {
-				sun.Load[j], sun.LoadHalf[j] = ir.Absorbed(st, j)
-			}
-			sun.Escaped = ir.Escaped(st)
-			sun.Beam, sun.LaunchArea, sun.BackShare = ir.Beams[st], ir.LaunchArea[st], ir.Back[st]
+		if in.Sunlight != nil {
 			if sun.BackShare > raytrace.BackFaceThreshold {
 				a.Notes = append(a.Notes, fmt.Sprintf("sun %s: %.3g%% of its rays met the back of a one-sided surface, where no node absorbs them: normal for the outside of an enclosure modelled from within; declare a sheet lit from behind two-sided (and give its back a solar_absorptance)", s.name, 100*sun.BackShare))
 			}

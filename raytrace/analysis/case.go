@@ -30,6 +30,9 @@ type Case struct {
 	// of the sun through a day or around an orbit, each its own steady
 	// state.
 	Suns []SunSpec `toml:"sun"`
+	// Sky is diffuse light alike from every direction, added to every
+	// sun's state (or a state of its own without suns).
+	Sky SkySpec `toml:"sky"`
 }
 
 // ModelSpec lists the mesh files and how to read them.

@@ -25,6 +25,14 @@ type SunSpec struct {
 	Rays       int64     `toml:"rays"` // default DefaultSunRays
 }
 
+// SkySpec is the [sky] table: diffuse light alike from every direction
+// (no ground, no horizon), of Irradiance W/m² on one side of a plate that
+// sees nothing but sky.
+type SkySpec struct {
+	Irradiance float64 `toml:"irradiance"`
+	Rays       int64   `toml:"rays"` // default DefaultSunRays
+}
+
 // DefaultSunRays is the number of rays of a sun without its own count.
 const DefaultSunRays = 1000000
 
@@ -33,14 +41,17 @@ var sunName = regexp.MustCompile(`^[A-Za-z0-9_-]{1,40}$`)
 
 // checkSuns checks the [[sun]] tables.
 func (c *Case) checkSuns() error {
-	seen := map[string]bool{}
+	if sk := c.Sky; !(sk.Irradiance >= 0 && sk.Irradiance <= maxHeat) || sk.Rays < 0 || sk.Rays > 1<<40 {
+		return keyErr([]string{"sky"}, "sky irradiance %v W/m² must be in [0, %g] and rays %d in [1, 2^40]", sk.Irradiance, maxHeat, sk.Rays)
+	}
+	seen := map[string]bool{"sky": true} // the name of the sky's own state
 	for k, s := range c.Suns {
 		key := []string{"sun", fmt.Sprint(k + 1)}
 		switch {
 		case !sunName.MatchString(s.Name):
 			return keyErr(key, "sun %d needs a name of letters, digits, _ or - (up to 40; it names the output files), not %q", k+1, s.Name)
 		case seen[s.Name]:
-			return keyErr(key, "two suns are called %q", s.Name)
+			return keyErr(key, "two suns are called %q (and \"sky\" is the sky's)", s.Name)
 		case !(s.Irradiance > 0 && s.Irradiance <= maxHeat):
 			return keyErr(key, "sun %s: irradiance %v W/m² must be positive (about 1361 W/m² above the atmosphere near Earth)", s.Name, s.Irradiance)
 		case s.Rays < 0 || s.Rays > 1<<40:
@@ -83,7 +94,7 @@ func (c *Case) toward(s SunSpec) geometry.Vec3 {
 // sunlight returns the case's beams and the solar optics of every surface
 // side (nil, nil without suns).
 func (c *Case) sunlight(surfaces []string) ([]raytrace.Beam, map[string]raytrace.Optics, error) {
-	if len(c.Suns) == 0 {
+	if len(c.Suns) == 0 && c.Sky.Irradiance == 0 {
 		return nil, nil, nil
 	}
 	optics, err := c.bandOptics(surfaces, solar)
@@ -96,6 +107,13 @@ func (c *Case) sunlight(surfaces []string) ([]raytrace.Beam, map[string]raytrace
 		if beams[k].Rays == 0 {
 			beams[k].Rays = DefaultSunRays
 		}
+	}
+	if sk := c.Sky; sk.Irradiance > 0 {
+		b := raytrace.Beam{Name: "sky", Irradiance: sk.Irradiance, Rays: sk.Rays, Diffuse: true}
+		if b.Rays == 0 {
+			b.Rays = DefaultSunRays
+		}
+		beams = append(beams, b)
 	}
 	return beams, optics, nil
 }
@@ -126,39 +144,87 @@ type SunState struct {
 	Escaped        float64
 	Solution       *exchange.Solution
 	THalf, QHalf   []float64
-	// Beam is the sun as traced; LaunchArea its launch rectangle (m²) and
-	// BackShare the share of its rays that ended on the back of a
-	// one-sided surface.
+	// Beam is the sun as traced (or the sky, for a state under the sky
+	// alone); LaunchArea its launch area (m²) and BackShare the share of
+	// its rays that ended on the back of a one-sided surface. Load and
+	// Escaped include the sky's when the case has one.
 	Beam                  raytrace.Beam
 	LaunchArea, BackShare float64
 }
 
-// state is one steady state to solve: its name and its loads per node
-// (pooled for replicate −1, else of that replicate; nil without loads).
+// state is one steady state to solve: its name and the beams whose
+// absorbed power loads its nodes (a sun, and the sky if the case has one).
 type state struct {
-	name string
-	load func(rep int) []float64
+	name  string
+	beams []int
 }
 
-// states lists the steady states of the case: one without sunlight, or
-// one per sun.
-func (in *Input) states(n int) []state {
+// states lists the steady states of the case: one without sunlight, one
+// per sun, or one under the sky alone.
+func (in *Input) states() []state {
 	ir := in.Sunlight
 	if ir == nil {
-		return []state{{load: func(int) []float64 { return nil }}}
+		return []state{{}}
+	}
+	sky := -1
+	for b, bm := range ir.Beams {
+		if bm.Diffuse {
+			sky = b
+		}
 	}
 	var out []state
-	for b := range ir.Beams {
-		out = append(out, state{name: ir.Beams[b].Name, load: func(rep int) []float64 {
-			if rep < 0 || rep >= ir.Replicates() {
-				load := make([]float64, n)
-				for j := range load {
-					load[j], _ = ir.Absorbed(b, j)
-				}
-				return load
-			}
-			return ir.Replicate(rep, b)
-		}})
+	for b, bm := range ir.Beams {
+		if bm.Diffuse {
+			continue
+		}
+		st := state{name: bm.Name, beams: []int{b}}
+		if sky >= 0 {
+			st.beams = append(st.beams, sky)
+		}
+		out = append(out, st)
 	}
+	if len(out) == 0 {
+		out = append(out, state{name: ir.Beams[sky].Name, beams: []int{sky}})
+	}
+	return out
+}
+
+// load returns the power each of n nodes absorbs in state s: pooled for
+// replicate −1, else of that replicate; nil without beams.
+func (in *Input) load(s state, n, rep int) []float64 {
+	if len(s.beams) == 0 {
+		return nil
+	}
+	ir := in.Sunlight
+	out := make([]float64, n)
+	for _, b := range s.beams {
+		if rep >= 0 && rep < ir.Replicates() {
+			for j, w := range ir.Replicate(rep, b) {
+				out[j] += w
+			}
+			continue
+		}
+		for j := range out {
+			w, _ := ir.Absorbed(b, j)
+			out[j] += w
+		}
+	}
+	return out
+}
+
+// sunState fills in a state's loads, their half-widths (the beams are
+// independent: half-widths add in quadrature) and what leaves the model.
+func (in *Input) sunState(s state, n int) SunState {
+	ir := in.Sunlight
+	out := SunState{Name: s.name, Load: in.load(s, n, -1), LoadHalf: make([]float64, n)}
+	for _, b := range s.beams {
+		for j := range n {
+			_, h := ir.Absorbed(b, j)
+			out.LoadHalf[j] = math.Hypot(out.LoadHalf[j], h)
+		}
+		out.Escaped += ir.Escaped(b)
+	}
+	b := s.beams[0]
+	out.Beam, out.LaunchArea, out.BackShare = ir.Beams[b], ir.LaunchArea[b], ir.Back[b]
 	return out
 }

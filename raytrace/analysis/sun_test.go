@@ -78,3 +78,37 @@ func TestSunNeedsAbsorptance(t *testing.T) {
 		}
 	}
 }
+
+// A sky of irradiance E_s adds to the sun on every state: the plate facing
+// the sun at equilibrium reaches εσT⁴ = α(E cos θ + E_s) (the same energy
+// balance; the plate's front sees only sky).
+func TestSunAndSky(t *testing.T) {
+	const alpha, eps, E, Es = 0.6, 0.85, 1000.0, 200.0
+	m := mesh.Rectangle("plate", geometry.Vec3{}, geometry.Vec3{X: 1}, geometry.Vec3{Y: 0.5}, 2, 2)
+	zero := 0.0
+	c := &Case{
+		Rays:     RaySpec{PerNode: 1000, Seed: 2},
+		Ambient:  AmbientSpec{Temperature: &zero},
+		Surfaces: map[string]SurfaceSpec{"plate": {Emissivity: ptr(eps), SolarAbsorptance: ptr(alpha), Adiabatic: ptr(true)}},
+		Suns:     []SunSpec{{Name: "facing", Toward: []float64{0, 0, 1}, Irradiance: E, Rays: 200000}},
+		Sky:      SkySpec{Irradiance: Es, Rays: 2000000},
+	}
+	a := analysed(t, openWith(t, m, c))
+	s := a.Suns[0]
+	load := alpha * (E + Es) * 0.5
+	if math.Abs(s.Load[0]-load) > 2*s.LoadHalf[0] || s.LoadHalf[0] > 0.02*load {
+		t.Errorf("plate absorbs %.4g ± %.2g W, exact %.4g W", s.Load[0], s.LoadHalf[0], load)
+	}
+	want := math.Pow(alpha*(E+Es)/(eps*exchange.Sigma), 0.25)
+	if T := s.Solution.T[0]; math.Abs(T-want) > 2*s.THalf[0] {
+		t.Errorf("plate at %.3f ± %.3f K, equilibrium %.3f K", T, s.THalf[0], want)
+	}
+	c.Suns = nil // the sky alone: a state of its own
+	a = analysed(t, openWith(t, m, c))
+	if len(a.Suns) != 1 || a.Suns[0].Name != "sky" {
+		t.Fatalf("states %+v, want the sky's", a.Suns)
+	}
+	if l, h := a.Suns[0].Load[0], a.Suns[0].LoadHalf[0]; math.Abs(l-alpha*Es*0.5) > 2*h {
+		t.Errorf("under the sky alone the plate absorbs %.4g ± %.2g W, exact %.4g", l, h, alpha*Es*0.5)
+	}
+}

@@ -67,3 +67,14 @@ func CosineHemispherePDF(cosTheta float64) float64 { return cosTheta / math.Pi }
 func InvertCosineHemisphere(x, y, z float64) (u1, u2 float64) {
 	return InvertConcentricDisk(x, y)
 }
+
+// UniformSphere maps (u1, u2) in [0, 1)² to a uniformly distributed unit
+// vector: z uniform in [−1, 1] (Archimedes' hat-box theorem: equal
+// heights of a sphere's zones have equal areas; common practice) and the
+// azimuth uniform.
+func UniformSphere(u1, u2 float64) (x, y, z float64) {
+	z = 1 - 2*u1
+	r := math.Sqrt(max(0, 1-z*z))
+	phi := 2 * math.Pi * u2
+	return r * math.Cos(phi), r * math.Sin(phi), z
+}
