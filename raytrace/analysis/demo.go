@@ -101,17 +101,25 @@ func WriteDemo(dir string) (string, error) {
 	if err != nil {
 		return "", err
 	}
-	files := []struct {
-		name string
-		w    func(io.Writer) error
-	}{
+	return writeScenario(dir, []scenarioFile{
 		{"enclosure.obj", func(w io.Writer) error { return mesh.WriteOBJ(w, mesh.Scaled(enclosure, 1000)) }},
 		{"board.stl", func(w io.Writer) error { return mesh.WriteSTL(w, mesh.Scaled(board, 1000), "board") }},
 		{"module.stl", func(w io.Writer) error { return mesh.WriteSTL(w, mesh.Scaled(module, 1000), "module") }},
 		{"case.toml", func(w io.Writer) error { _, err := io.WriteString(w, DemoCase); return err }},
-	}
+	})
+}
+
+// scenarioFile is one file of a demo scenario and how to write it.
+type scenarioFile struct {
+	name  string
+	write func(io.Writer) error
+}
+
+// writeScenario writes a scenario's files into dir, atomically each, and
+// returns the path of its case file.
+func writeScenario(dir string, files []scenarioFile) (string, error) {
 	for _, f := range files {
-		if err := atomicfile.Write(filepath.Join(dir, f.name), f.w); err != nil {
+		if err := atomicfile.Write(filepath.Join(dir, f.name), f.write); err != nil {
 			return "", err
 		}
 	}

@@ -2,11 +2,9 @@ package analysis
 
 import (
 	"io"
-	"path/filepath"
 
 	"github.com/hemiray/hemiray/geometry"
 	"github.com/hemiray/hemiray/mesh"
-	"github.com/hemiray/hemiray/raytrace/internal/atomicfile"
 )
 
 // The second demo scenario (invented for the demo, not a reference case):
@@ -132,17 +130,8 @@ func WriteInstrumentDemo(dir string) (string, error) {
 	if err != nil {
 		return "", err
 	}
-	files := []struct {
-		name string
-		w    func(io.Writer) error
-	}{
+	return writeScenario(dir, []scenarioFile{
 		{"instrument.obj", func(w io.Writer) error { return mesh.WriteOBJ(w, mesh.Scaled(m, 1000)) }},
 		{"case.toml", func(w io.Writer) error { _, err := io.WriteString(w, InstrumentCase); return err }},
-	}
-	for _, f := range files {
-		if err := atomicfile.Write(filepath.Join(dir, f.name), f.w); err != nil {
-			return "", err
-		}
-	}
-	return filepath.Join(dir, "case.toml"), nil
+	})
 }
