@@ -74,34 +74,18 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 			weight[i] *= eps
 		}
 	}
-	// The pooled tally and the replicates are smoothed side by side: they
-	// are independent, and each result goes to its own slot, so the order of
-	// work cannot change a bit.
-	tallies := []*raytrace.Tally{&res.Tally}
-	for r := range res.Replicas {
-		tallies = append(tallies, &res.Replicas[r])
+	// Each replicate is smoothed when its job comes and dropped once
+	// solved, so that no more than one smoothed replicate per worker is
+	// held beside the pooled matrix.
+	pooled := func() (*smooth.Result, error) { return smoothTally(weight, &res.Tally, open) }
+	reps := make([]replicate, len(res.Replicas))
+	for r := range reps {
+		reps[r] = replicate{index: r, smooth: func() (*smooth.Result, error) { return smoothTally(weight, &res.Replicas[r], open) }}
 	}
-	sms, errs := make([]*smooth.Result, len(tallies)), make([]error, len(tallies))
-	parallel(len(tallies), func(k int) { sms[k], errs[k] = smoothTally(weight, tallies[k], open) })
-	if errs[0] != nil {
-		return nil, nameNode(errs[0], res.Nodes, res)
-	}
-	sm := sms[0]
-	var reps []*smooth.Result
-	var repIndex []int
-	var notes []string
-	for r := range res.Replicas {
-		if err := errs[r+1]; err != nil {
-			notes = append(notes, fmt.Sprintf("replicate %d skipped: %v", r, err))
-			continue
-		}
-		reps, repIndex = append(reps, sms[r+1]), append(repIndex, r)
-	}
-	a, err := in.solve(res.Nodes, sm, reps, repIndex, open, absorption, res.Options.Confidence)
+	a, err := in.solve(res.Nodes, pooled, reps, open, absorption, res.Options.Confidence)
 	if err != nil {
 		return nil, nameNode(err, res.Nodes, res)
 	}
-	a.Notes = append(notes, a.Notes...)
 	a.Raw, a.RawAmbient = make([]exchange.Row, len(res.Nodes)), make([]float64, len(res.Nodes))
 	for i := range res.Nodes {
 		row := &res.Hits[i]
@@ -127,82 +111,92 @@ func smoothTally(weight []float64, t *raytrace.Tally, open bool) (*smooth.Result
 	return smooth.Smooth(c)
 }
 
-// solve solves the exchange for the pooled smoothed matrix and every
-// replicate's, and computes exchange areas.
-//
-// reps are the replicates' smoothed matrices that smoothed, repIndex their
-// replicate numbers (for the suns' replicate loads).
-func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.Result, repIndex []int, open, absorption bool, confidence float64) (*Result, error) {
-	p, info, err := problem(in.Case, in.Mesh, nodes, sm, open)
-	if err != nil {
-		return nil, err
-	}
-	p.Absorption = absorption
-	a := &Result{Nodes: nodes, Open: open, Absorption: absorption, Smoothed: sm, Info: info, AmbientT: p.AmbientT, Confidence: confidence}
-	// Exchange areas: AF with the reflections summed, or directly εAB when
-	// the rays were followed through them (black nodes of area εA).
-	area, eps := p.Area, p.Emissivity
-	if absorption {
-		area, eps = exchange.EmissionAreas(p.Area, p.Emissivity), ones(len(p.Area))
-	}
+// replicate is one replicate tally to smooth and solve: its number and
+// how to smooth it.
+type replicate struct {
+	index  int
+	smooth func() (*smooth.Result, error)
+}
+
+// solve smooths the pooled matrix (pooled) and solves the exchange with it
+// for every steady state, computes the exchange areas, and smooths and
+// solves every replicate for the intervals on T and Q. The work runs side
+// by side in jobs: the pooled matrix's (smoothing, exchange areas, the
+// states' solves) and one per replicate; every result goes to its own
+// slot, so the order of work cannot change a bit.
+func (in *Input) solve(nodes []raytrace.Node, pooled func() (*smooth.Result, error), reps []replicate, open, absorption bool, confidence float64) (*Result, error) {
 	if len(in.Beams) > 0 && in.Sunlight == nil {
 		if err := in.TraceSun(context.Background(), 0); err != nil {
 			return nil, err
 		}
 	}
-	// Job 0 computes the exchange areas; then, for every steady state (one,
-	// or one per sun), a job solves the pooled matrix and one each
-	// replicate's: independent work, run side by side.
 	states := in.states()
-	per := 1 + len(reps)
-	sols, errs := make([]*exchange.Solution, len(states)*per), make([]error, len(states)*per)
-	var cerr error
-	parallel(1+len(sols), func(k int) {
-		if k == 0 {
-			if in.Case.Output.Conductances == nil || *in.Case.Output.Conductances {
-				a.Conductors, cerr = exchange.TotalExchange(area, eps, p.F, p.Ambient, in.Case.Output.DropConductors)
-			}
+	var a *Result
+	var perr error
+	pooledSols := make([]*exchange.Solution, len(states))
+	repT, repQ := make([][][]float64, len(reps)), make([][][]float64, len(reps)) // [replicate][state]
+	repErr := make([]error, len(reps))
+	parallel(1+len(reps), func(k int) {
+		if k > 0 {
+			repT[k-1], repQ[k-1], repErr[k-1] = in.solveReplicate(nodes, reps[k-1], states, open, absorption)
 			return
 		}
-		k--
-		st, r := k/per, k%per-1 // r = −1: the pooled matrix
-		pr := p
-		if r >= 0 {
-			if pr, _, errs[k] = problem(in.Case, in.Mesh, nodes, reps[r], open); errs[k] != nil {
+		sm, err := pooled()
+		if err != nil {
+			perr = err
+			return
+		}
+		p, info, err := problem(in.Case, in.Mesh, nodes, sm, open)
+		if err != nil {
+			perr = err
+			return
+		}
+		p.Absorption = absorption
+		a = &Result{Nodes: nodes, Open: open, Absorption: absorption, Smoothed: sm, Info: info, AmbientT: p.AmbientT, Confidence: confidence}
+		for st, s := range states {
+			pr := p
+			pr.Load = in.load(s, len(nodes), -1)
+			if pooledSols[st], err = exchange.Solve(pr); err != nil {
+				if s.name != "" {
+					err = fmt.Errorf("sun %s: %w", s.name, err)
+				}
+				perr = err
 				return
 			}
-			pr.Absorption = absorption
-			pr.Load = in.load(states[st], len(nodes), repIndex[r])
-		} else {
-			pr.Load = in.load(states[st], len(nodes), -1)
 		}
-		sols[k], errs[k] = exchange.Solve(pr)
+		if in.Case.Output.Conductances == nil || *in.Case.Output.Conductances {
+			// Exchange areas: AF with the reflections summed, or directly
+			// εAB when the rays were followed through them (black nodes of
+			// area εA).
+			area, eps := p.Area, p.Emissivity
+			if absorption {
+				area, eps = exchange.EmissionAreas(p.Area, p.Emissivity), ones(len(p.Area))
+			}
+			a.Conductors, perr = exchange.TotalExchange(area, eps, p.F, p.Ambient, in.Case.Output.DropConductors)
+		}
 	})
-	if cerr != nil {
-		return nil, nameNode(cerr, nodes, nil)
+	if perr != nil {
+		return nil, perr
 	}
 	if a.Conductors == nil {
 		a.Notes = append(a.Notes, "conductances skipped (output.conductances = false or --no-conductances)")
 	}
-	for st, s := range states {
-		if err := errs[st*per]; err != nil {
-			if s.name != "" {
-				err = fmt.Errorf("sun %s: %w", s.name, err)
-			}
-			return nil, nameNode(err, nodes, nil)
+	for r, err := range repErr {
+		if err != nil {
+			a.Notes = append(a.Notes, fmt.Sprintf("replicate %d skipped: %v", reps[r].index, err))
 		}
+	}
+	for st, s := range states {
 		sun := SunState{Name: s.name}
 		if in.Sunlight != nil {
 			sun = in.sunState(s, len(nodes))
 		}
-		sun.Solution = sols[st*per]
+		sun.Solution = pooledSols[st]
 		var Ts, Qs [][]float64
 		for r := range reps {
-			if err := errs[st*per+1+r]; err != nil {
-				a.Notes = append(a.Notes, fmt.Sprintf("replicate %d skipped: %v", repIndex[r], err))
-				continue
+			if repErr[r] == nil {
+				Ts, Qs = append(Ts, repT[r][st]), append(Qs, repQ[r][st])
 			}
-			Ts, Qs = append(Ts, sols[st*per+1+r].T), append(Qs, sols[st*per+1+r].Q)
 		}
 		if len(Ts) >= 2 {
 			a.Replicates = len(Ts)
@@ -220,6 +214,30 @@ func (in *Input) solve(nodes []raytrace.Node, sm *smooth.Result, reps []*smooth.
 		}
 	}
 	return a, nil
+}
+
+// solveReplicate smooths one replicate and solves every state with it,
+// returning T and Q per state; its smoothed matrix is dropped on return.
+func (in *Input) solveReplicate(nodes []raytrace.Node, rep replicate, states []state, open, absorption bool) (T, Q [][]float64, err error) {
+	sm, err := rep.smooth()
+	if err != nil {
+		return nil, nil, err
+	}
+	p, _, err := problem(in.Case, in.Mesh, nodes, sm, open)
+	if err != nil {
+		return nil, nil, err
+	}
+	p.Absorption = absorption
+	for _, s := range states {
+		pr := p
+		pr.Load = in.load(s, len(nodes), rep.index)
+		sol, err := exchange.Solve(pr)
+		if err != nil {
+			return nil, nil, err
+		}
+		T, Q = append(T, sol.T), append(Q, sol.Q)
+	}
+	return T, Q, nil
 }
 
 func ones(n int) []float64 {

@@ -85,7 +85,7 @@ func TestTwoSidedSheetFluxAndFlow(t *testing.T) {
 	} {
 		c := &Case{Surfaces: map[string]SurfaceSpec{"sheet": tc.spec, "sheet.back": {Emissivity: ptr(1.0)}}}
 		in, nodes, sm := sheetInBox(t, c)
-		a, err := in.solve(nodes, sm, nil, nil, false, false, 0.95)
+		a, err := in.solve(nodes, func() (*smooth.Result, error) { return sm, nil }, nil, false, false, 0.95)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -107,7 +107,7 @@ func TestTwoSidedSheetFluxAndFlow(t *testing.T) {
 func TestHeatFlowSharedByArea(t *testing.T) {
 	c := &Case{Surfaces: map[string]SurfaceSpec{"sheet": {Emissivity: ptr(1.0), HeatFlow: ptr(50.0)}}}
 	in, nodes, sm := sheetInBox(t, c)
-	a, err := in.solve(nodes, sm, nil, nil, false, false, 0.95)
+	a, err := in.solve(nodes, func() (*smooth.Result, error) { return sm, nil }, nil, false, false, 0.95)
 	if err != nil {
 		t.Fatal(err)
 	}

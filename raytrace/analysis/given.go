@@ -202,25 +202,28 @@ func (in *Input) AnalyseFactors(given []Given) (*Result, error) {
 			c.Ambient[i] = int64(math.Round(rawAmb[i] * givenScale))
 		}
 	}
-	sm, err := smooth.Smooth(c)
-	if err != nil {
-		return nil, err
-	}
-	for i := range sm.Moved {
-		for k := range sm.Moved[i] {
-			sm.Moved[i][k] = math.NaN()
+	pooled := func() (*smooth.Result, error) {
+		sm, err := smooth.Smooth(c)
+		if err != nil {
+			return nil, err
 		}
+		for i := range sm.Moved {
+			for k := range sm.Moved[i] {
+				sm.Moved[i][k] = math.NaN()
+			}
+		}
+		for i := range sm.MovedAmbient {
+			sm.MovedAmbient[i] = math.NaN()
+		}
+		sm.MaxMoved = math.NaN()
+		return sm, nil
 	}
-	for i := range sm.MovedAmbient {
-		sm.MovedAmbient[i] = math.NaN()
-	}
-	sm.MaxMoved = math.NaN()
-	a, err := in.solve(nodes, sm, nil, nil, open, false, in.Settings.WithDefaults().Confidence)
+	a, err := in.solve(nodes, pooled, nil, open, false, in.Settings.WithDefaults().Confidence)
 	if err != nil {
 		return nil, err
 	}
 	a.Raw, a.RawAmbient = raw, rawAmb
-	if s := sm.SummationBefore; s > 0.05 {
+	if s := a.Smoothed.SummationBefore; s > 0.05 {
 		a.Notes = append(a.Notes, fmt.Sprintf("the given view factors' rows sum to 1 only within %.2g: check that every node's row is complete (and the ambient column of an open model)", s))
 	}
 	return a, nil
