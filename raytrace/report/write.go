@@ -4,7 +4,10 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"runtime"
 	"strings"
+
+	"golang.org/x/sync/errgroup"
 
 	"github.com/hemiray/hemiray/mesh"
 	"github.com/hemiray/hemiray/raytrace"
@@ -55,54 +58,50 @@ func (o *Outputs) Warnings() []string {
 }
 
 // Write writes every output file of o into dir and returns their names.
+// The matrix files are written side by side (on up to GOMAXPROCS
+// threads): each is formatting-bound, and at 10⁴ nodes each can hold 10⁷
+// entries; the names come back in a fixed order whatever finishes first.
 func Write(dir string, o Outputs) ([]string, error) {
-	var written []string
 	nodes := o.nodes()
+	var tasks []func() ([]string, error)
+	one := func(name string, err error) ([]string, error) { return []string{name}, err }
 	if t := o.Traced; t != nil {
-		vf, err := writeViewFactors(dir, t.Result, !o.Compact)
-		if err != nil {
-			return nil, err
-		}
-		written = append(written, vf...)
-		name, err := writeRawMTX(dir, t.Result)
-		if err != nil {
-			return nil, err
-		}
-		written = append(written, name)
+		tasks = append(tasks,
+			func() ([]string, error) { return writeViewFactors(dir, t.Result, !o.Compact) },
+			func() ([]string, error) { return one(writeRawMTX(dir, t.Result)) })
 		if len(nodes) <= SquareLimit && !o.Compact {
-			if err := writeTallies(dir, t.Result, analysis.SurfaceNames(o.Input.Mesh)); err != nil {
-				return nil, err
-			}
-			written = append(written, TalliesCSV)
+			tasks = append(tasks, func() ([]string, error) {
+				return one(TalliesCSV, writeTallies(dir, t.Result, analysis.SurfaceNames(o.Input.Mesh)))
+			})
 		}
-		written = append(written, analysis.TallyFile)
+		tasks = append(tasks, func() ([]string, error) { return []string{analysis.TallyFile}, nil })
 	}
 	if a := o.Analysis; a != nil {
-		sm, err := writeSmoothed(dir, a, !o.Compact)
-		if err != nil {
-			return nil, err
-		}
-		written = append(written, sm...)
-		if err := writeSurfaces(dir, a); err != nil {
-			return nil, err
-		}
-		written = append(written, "surfaces.csv")
-		solar, err := writeSolar(dir, a)
-		if err != nil {
-			return nil, err
-		}
-		written = append(written, solar...)
-		mtx, err := writeAnalysisMTX(dir, a)
-		if err != nil {
-			return nil, err
-		}
-		written = append(written, mtx...)
+		tasks = append(tasks,
+			func() ([]string, error) { return writeSmoothed(dir, a, !o.Compact) },
+			func() ([]string, error) { return one("surfaces.csv", writeSurfaces(dir, a)) },
+			func() ([]string, error) { return writeSolar(dir, a) },
+			func() ([]string, error) { return writeAnalysisMTX(dir, a) })
 		if a.Conductors != nil && !o.Compact {
-			if err := writeConductances(dir, a); err != nil {
-				return nil, err
-			}
-			written = append(written, "conductances.csv")
+			tasks = append(tasks, func() ([]string, error) { return one("conductances.csv", writeConductances(dir, a)) })
 		}
+	}
+	names := make([][]string, len(tasks))
+	var g errgroup.Group
+	g.SetLimit(runtime.GOMAXPROCS(0))
+	for k, task := range tasks {
+		g.Go(func() error {
+			var err error
+			names[k], err = task()
+			return err
+		})
+	}
+	if err := g.Wait(); err != nil {
+		return nil, err
+	}
+	var written []string
+	for _, n := range names {
+		written = append(written, n...)
 	}
 	sum, err := newSummary(o.Input, o.Traced, o.Analysis, o.Warnings())
 	if err != nil {
