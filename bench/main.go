@@ -8,6 +8,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
+	"runtime/pprof"
 	"sort"
 	"sync"
 	"text/tabwriter"
@@ -47,7 +48,18 @@ func main() {
 	scaleNoG := flag.Bool("scale-no-conductances", false, "with -scale: skip the conductances")
 	accuracy := flag.Bool("accuracy", false, "instead: rays per node to a 0.001 half-width on four closed-form configurations, plain Monte Carlo against RQMC, and the cluttered room")
 	seeds := flag.Int("seeds", 24, "with -accuracy: independent runs per point")
+	cpuProfile := flag.String("cpuprofile", "", "write a CPU profile of the whole run to this file (go tool pprof)")
 	flag.Parse()
+	if *cpuProfile != "" {
+		f, err := os.Create(*cpuProfile)
+		if err != nil {
+			log.Fatal(err)
+		}
+		if err := pprof.StartCPUProfile(f); err != nil {
+			log.Fatal(err)
+		}
+		defer pprof.StopCPUProfile()
+	}
 	if *accuracy {
 		rs, err := raysToTarget(0.001, *seeds)
 		if err != nil {
