@@ -10,7 +10,7 @@ import (
 
 // cautions are written into every summary.json, as in the README.
 var cautions = []string{
-	"View factors and heat flows are Monte Carlo estimates with the stated confidence intervals, computed on the mesh as given; check them before using them in design work.",
+	"View factors (or absorption factors), solar loads and heat flows are Monte Carlo estimates with the stated confidence intervals, computed on the mesh and surface properties as given; check them before using them in design work. Mirrors and windows can concentrate sunlight to temperatures that damage equipment or burn.",
 	"Where results bear on safety (furnaces and ovens, fire exposure, burn-hazard surface temperatures, spacecraft), the applicable codes and standards and licensed professional practice govern.",
 }
 
