@@ -46,8 +46,23 @@ func (r Row[V]) Add(o Row[V]) Row[V] {
 	if len(r.Col) == 0 {
 		return o
 	}
-	out := Row[V]{Col: make([]int32, 0, len(r.Col)+len(o.Col)), Val: make([]V, 0, len(r.Col)+len(o.Col))}
-	i, j := 0, 0
+	// Count the merged columns first, so the row is allocated to size: a
+	// tally row is merged many times and kept to the end of a run.
+	n, i, j := 0, 0, 0
+	for i < len(r.Col) && j < len(o.Col) {
+		switch {
+		case r.Col[i] < o.Col[j]:
+			i++
+		case o.Col[j] < r.Col[i]:
+			j++
+		default:
+			i, j = i+1, j+1
+		}
+		n++
+	}
+	n += len(r.Col) - i + len(o.Col) - j
+	out := Row[V]{Col: make([]int32, 0, n), Val: make([]V, 0, n)}
+	i, j = 0, 0
 	for i < len(r.Col) || j < len(o.Col) {
 		switch {
 		case j == len(o.Col) || (i < len(r.Col) && r.Col[i] < o.Col[j]):

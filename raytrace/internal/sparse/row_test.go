@@ -12,6 +12,8 @@ func TestRow(t *testing.T) {
 	want := Row[int64]{Col: []int32{0, 1, 4, 7, 9}, Val: []int64{1, 2, 13, 5, 1}}
 	if got := a.Add(b); !reflect.DeepEqual(got, want) {
 		t.Errorf("a + b = %+v, want %+v", got, want)
+	} else if cap(got.Col) != len(got.Col) || cap(got.Val) != len(got.Val) {
+		t.Errorf("a + b holds %d columns in room for %d: tally rows are kept to the end of a run", len(got.Col), cap(got.Col))
 	}
 	if a.At(4) != 3 || a.At(5) != 0 || a.Sum() != 10 || a.Len() != 3 {
 		t.Errorf("At, Sum, Len: %v %v %v %v", a.At(4), a.At(5), a.Sum(), a.Len())
