@@ -41,8 +41,10 @@ type Options struct {
 	// units are not traced again and its tallies are the starting point.
 	Resume *Checkpoint
 	// OnCheckpoint, if set, is called about every CheckpointEvery (default
-	// one minute) with a consistent snapshot of the finished work, from one
-	// goroutine; an error it returns stops the run.
+	// one minute) with a consistent snapshot of the finished work, one call
+	// at a time, on a goroutine of its own while tracing goes on (a tick
+	// during a call is skipped); Estimate returns only after the last call
+	// has returned, and an error it returns is Estimate's.
 	OnCheckpoint    func(*Checkpoint) error
 	CheckpointEvery time.Duration
 	// MemoryLimit, when positive, is the memory in bytes a facet-mode run may
@@ -389,12 +391,24 @@ func (e *engine) run(ctx context.Context, units []unit, out *Result) error {
 		}
 		e.opts.Progress(p)
 	}
+	// A checkpoint is written while the tracing goes on: the snapshot is
+	// cheap (rows are never changed in place, so it shares them), but
+	// writing gigabytes of tallies is not, and the collector must keep
+	// taking results meanwhile or the workers stall. A tick that comes
+	// while a write is still going is skipped.
 	var cerr error
+	written := make(chan error, 1)
+	writing := false
 	for {
 		select {
 		case rs, ok := <-finished:
 			if !ok {
 				<-waited
+				if writing {
+					if err := <-written; err != nil && cerr == nil {
+						cerr = fmt.Errorf("checkpoint: %w", err)
+					}
+				}
 				report()
 				if cerr != nil {
 					return cerr
@@ -406,12 +420,16 @@ func (e *engine) run(ctx context.Context, units []unit, out *Result) error {
 			}
 		case <-progress.C:
 			report()
+		case err := <-written:
+			writing = false
+			if err != nil && cerr == nil {
+				cerr = fmt.Errorf("checkpoint: %w", err)
+			}
 		case <-checkpoint.C:
-			if e.opts.OnCheckpoint != nil && cerr == nil {
+			if e.opts.OnCheckpoint != nil && cerr == nil && !writing {
 				ck := out.Checkpoint()
-				if cerr = e.opts.OnCheckpoint(&ck); cerr != nil {
-					cerr = fmt.Errorf("checkpoint: %w", cerr)
-				}
+				writing = true
+				go func() { written <- e.opts.OnCheckpoint(&ck) }()
 			}
 		}
 	}
