@@ -1,6 +1,7 @@
 package raytrace
 
 import (
+	"bufio"
 	"bytes"
 	"crypto/sha256"
 	"encoding/binary"
@@ -32,42 +33,58 @@ const (
 // ErrTallyFile marks a file that is not a readable tally file.
 var ErrTallyFile = errors.New("not a valid hemiray tally file")
 
-// WriteTallyFile writes ck and meta to w.
+// WriteTallyFile writes ck and meta to w. It streams: memory stays a few
+// megabytes however large the tallies (gigabytes at 10⁴ nodes and 10⁴ rays
+// per node), and the SHA-256 of everything before it closes the file.
 func WriteTallyFile(w io.Writer, ck *Checkpoint, meta []byte) error {
-	var b bytes.Buffer
-	put := func(v any) { binary.Write(&b, binary.LittleEndian, v) }
-	b.WriteString(tallyMagic)
-	put(uint32(tallyVersion))
-	put(uint32(len(meta)))
-	b.Write(meta)
+	h := sha256.New()
+	bw := bufio.NewWriterSize(io.MultiWriter(w, h), 1<<20)
+	le := binary.LittleEndian
+	var buf []byte
+	spill := func() {
+		if len(buf) >= 1<<16 {
+			bw.Write(buf) // an error sticks in bw and comes back from Flush
+			buf = buf[:0]
+		}
+	}
+	u32 := func(v uint32) { buf = le.AppendUint32(buf, v); spill() }
+	i64 := func(v int64) { buf = le.AppendUint64(buf, uint64(v)); spill() }
+	buf = append(buf, tallyMagic...)
+	u32(tallyVersion)
+	u32(uint32(len(meta)))
+	buf = append(buf, meta...)
 	n := len(ck.Targets)
-	put(uint32(n))
-	put(uint32(len(ck.Replicas)))
-	put(ck.Targets)
-	put(uint64(len(ck.Done)))
+	u32(uint32(n))
+	u32(uint32(len(ck.Replicas)))
+	for _, t := range ck.Targets {
+		i64(t)
+	}
+	i64(int64(len(ck.Done)))
 	for _, u := range ck.Done {
-		put(uint32(u.Node))
-		put(u.Lo)
-		put(u.Hi)
+		u32(uint32(u.Node))
+		i64(u.Lo)
+		i64(u.Hi)
 	}
 	row := func(r *Row) {
-		put(uint32(len(r.Col)))
+		u32(uint32(len(r.Col)))
 		for k := range r.Col {
-			put(uint32(r.Col[k]))
-			put(r.Val[k])
+			u32(uint32(r.Col[k]))
+			i64(r.Val[k])
 		}
 	}
 	for _, t := range append([]Tally{ck.Tally}, ck.Replicas...) {
 		for i := range n {
-			put(t.Rays[i])
-			put(t.Escaped[i])
+			i64(t.Rays[i])
+			i64(t.Escaped[i])
 			row(&t.Hits[i])
 			row(&t.Back[i])
 		}
 	}
-	sum := sha256.Sum256(b.Bytes())
-	b.Write(sum[:])
-	_, err := w.Write(b.Bytes())
+	bw.Write(buf)
+	if err := bw.Flush(); err != nil {
+		return err
+	}
+	_, err := w.Write(h.Sum(nil))
 	return err
 }
 
