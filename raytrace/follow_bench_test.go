@@ -29,18 +29,7 @@ func BenchmarkFollow(b *testing.B) {
 				s.Optics[sf.Name] = Optics{Emissivity: 0.5, Specular: c.specular}
 			}
 		}
-		b.Run(c.name, func(b *testing.B) {
-			secs, rays := 0.0, int64(0)
-			for b.Loop() {
-				r, err := Estimate(context.Background(), m, Options{Settings: s, Threads: 1})
-				if err != nil {
-					b.Fatal(err)
-				}
-				secs += r.TraceSeconds
-				rays += r.RaysTraced()
-			}
-			b.ReportMetric(float64(rays)/secs/1e6, "Mrays/s")
-		})
+		b.Run(c.name, func(b *testing.B) { benchTrace(b, m, s) })
 	}
 }
 
