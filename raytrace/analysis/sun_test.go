@@ -2,11 +2,13 @@ package analysis
 
 import (
 	"math"
+	"runtime"
 	"strings"
 	"testing"
 
 	"github.com/hemiray/hemiray/geometry"
 	"github.com/hemiray/hemiray/mesh"
+	"github.com/hemiray/hemiray/raytrace"
 	"github.com/hemiray/hemiray/raytrace/exchange"
 )
 
@@ -110,5 +112,23 @@ func TestSunAndSky(t *testing.T) {
 	}
 	if l, h := a.Suns[0].Load[0], a.Suns[0].LoadHalf[0]; math.Abs(l-alpha*Es*0.5) > 2*h {
 		t.Errorf("under the sky alone the plate absorbs %.4g ± %.2g W, exact %.4g", l, h, alpha*Es*0.5)
+	}
+}
+
+// The memory estimate counts the pooled matrix's entries and one
+// replicate per further worker, 200 bytes each.
+func TestAnalysisBytes(t *testing.T) {
+	row := func(cols ...int32) raytrace.Row {
+		r := raytrace.Row{}
+		for _, c := range cols {
+			r.Append(c, 1)
+		}
+		return r
+	}
+	res := &raytrace.Result{Tally: raytrace.Tally{Hits: []raytrace.Row{row(0, 1, 2), row(1)}},
+		Replicas: []raytrace.Tally{{Hits: []raytrace.Row{row(0), row(1)}}, {Hits: []raytrace.Row{row(0, 2), row(1)}}}}
+	side := int64(min(2, max(1, runtime.GOMAXPROCS(0)-1)))
+	if got, want := AnalysisBytes(res), 200*(4+side*3); got != want {
+		t.Errorf("AnalysisBytes = %d, want %d", got, want)
 	}
 }
