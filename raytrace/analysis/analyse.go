@@ -66,15 +66,21 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 	}
 	open := res.HasAmbient()
 	absorption := res.Options.Optics != nil
-	weight := make([]float64, len(res.Nodes)) // A_i, or ε_iA_i for absorption factors
+	// Reciprocity weights: A_i, or ε_iA_i for absorption factors, with the
+	// emissivities the rays were traced with.
+	weight := make([]float64, len(res.Nodes))
 	for i, n := range res.Nodes {
 		weight[i] = n.Area
 		if absorption {
-			eps, err := in.Case.emissivity(in.Mesh.Surfaces[n.Surface].Name, n)
-			if err != nil {
-				return nil, err
+			key := in.Mesh.Surfaces[n.Surface].Name
+			if n.Back {
+				key += ".back"
 			}
-			weight[i] *= eps
+			o, ok := res.Options.Optics[key]
+			if !ok {
+				return nil, fmt.Errorf("the tallies hold no optics for %s", key)
+			}
+			weight[i] *= o.Emissivity
 		}
 	}
 	// Each replicate is smoothed when its job comes and dropped once
