@@ -80,8 +80,12 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 			if !ok {
 				return nil, fmt.Errorf("the tallies hold no optics for %s", key)
 			}
-			if eps, err := in.Case.emissivity(in.Mesh.Surfaces[n.Surface].Name, n); err != nil || eps != o.Emissivity {
-				return nil, fmt.Errorf("%s: the case's emissivity differs from the %v its rays were followed with: trace again (%v)", n.Name, o.Emissivity, err)
+			eps, err := in.Case.emissivity(in.Mesh.Surfaces[n.Surface].Name, n)
+			if err != nil {
+				return nil, err
+			}
+			if eps != o.Emissivity {
+				return nil, fmt.Errorf("%s: the case's emissivity %v differs from the %v its rays were followed with: trace again", n.Name, eps, o.Emissivity)
 			}
 			weight[i] *= o.Emissivity
 		}
