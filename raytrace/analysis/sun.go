@@ -44,14 +44,16 @@ func (c *Case) checkSuns() error {
 	if sk := c.Sky; !(sk.Irradiance >= 0 && sk.Irradiance <= maxHeat) || sk.Rays < 0 || sk.Rays > 1<<40 {
 		return keyErr([]string{"sky"}, "sky irradiance %v W/m² must be in [0, %g] and rays %d in [1, 2^40]", sk.Irradiance, maxHeat, sk.Rays)
 	}
-	seen := map[string]bool{"sky": true} // the name of the sky's own state
+	seen := map[string]bool{}
 	for k, s := range c.Suns {
 		key := []string{"sun", fmt.Sprint(k + 1)}
 		switch {
 		case !sunName.MatchString(s.Name):
 			return keyErr(key, "sun %d needs a name of letters, digits, _ or - (up to 40; it names the output files), not %q", k+1, s.Name)
+		case s.Name == "sky":
+			return keyErr(key, "\"sky\" names the state under the [sky] alone: call the sun something else")
 		case seen[s.Name]:
-			return keyErr(key, "two suns are called %q (and \"sky\" is the sky's)", s.Name)
+			return keyErr(key, "two suns are called %q", s.Name)
 		case !(s.Irradiance > 0 && s.Irradiance <= maxHeat):
 			return keyErr(key, "sun %s: irradiance %v W/m² must be positive (about 1361 W/m² above the atmosphere near Earth)", s.Name, s.Irradiance)
 		case s.Rays < 0 || s.Rays > 1<<40:

@@ -73,6 +73,7 @@ func TestSunNeedsAbsorptance(t *testing.T) {
 		{Name: "x", Toward: []float64{0, 0, 1}, Azimuth: ptr(1.0), Elevation: ptr(1.0), Irradiance: 1},
 		{Name: "x", Toward: []float64{0, 0, 1}},
 		{Name: "x", Azimuth: ptr(0.0), Elevation: ptr(95.0), Irradiance: 1},
+		{Name: "sky", Toward: []float64{0, 0, 1}, Irradiance: 1},
 	} {
 		c.Suns = []SunSpec{bad}
 		if err := c.Validate(); err == nil {
