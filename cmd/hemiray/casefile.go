@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 
 	"github.com/pelletier/go-toml/v2"
@@ -108,10 +109,17 @@ func (cd *caseDoc) locate(err error) error {
 func (cd *caseDoc) line(table []string, key string) int {
 	cur := []string{}
 	header := 0
+	arrays := map[string]int{} // [[NAME]] tables seen so far: the k-th is NAME.k
 	for i, raw := range strings.Split(string(cd.doc), "\n") {
 		l := strings.TrimSpace(raw)
-		if strings.HasPrefix(l, "[") && !strings.HasPrefix(l, "[[") {
-			cur = splitKey(strings.Trim(l[:strings.Index(l+"]", "]")], "[ "))
+		if strings.HasPrefix(l, "[") {
+			if strings.HasPrefix(l, "[[") {
+				name := strings.Trim(l[:strings.Index(l+"]]", "]]")], "[ ")
+				arrays[name]++
+				cur = append(splitKey(name), strconv.Itoa(arrays[name]))
+			} else {
+				cur = splitKey(strings.Trim(l[:strings.Index(l+"]", "]")], "[ "))
+			}
 			if equalKeys(cur, table) {
 				header = i + 1
 				if key == "" {

@@ -535,3 +535,17 @@ temperature = 300
 		t.Errorf("solve with given view factors: exit %d, %s", code, se)
 	}
 }
+
+// A bad [[sun]] table is named by its own line, the second one too.
+func TestSunErrorLine(t *testing.T) {
+	dir := t.TempDir()
+	mesh, _ := filepath.Abs("../../testdata/cabinet_multi.stl")
+	text := "[model]\nfiles = [\"" + mesh + "\"]\n[defaults]\nemissivity = 0.5\nsolar_absorptance = 0.5\ntemperature = 300\n" +
+		"[[sun]]\nname = \"a\"\ntoward = [0, 0, 1]\nirradiance = 1000\n" +
+		"[[sun]]\nname = \"b\"\nazimuth = 10\nirradiance = 1000\n"
+	p := filepath.Join(dir, "c.toml")
+	os.WriteFile(p, []byte(text), 0o644)
+	if _, err := openCase(p); err == nil || !strings.Contains(err.Error(), "c.toml:11:") || !strings.Contains(err.Error(), "sun b") {
+		t.Errorf("bad second sun: %v", err)
+	}
+}
