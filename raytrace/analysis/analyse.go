@@ -61,7 +61,7 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 			return nil, fmt.Errorf("no ray has been traced from %s yet (a time limit or an interrupt came too soon): continue the trace with --resume, or give it more time", n.Name)
 		}
 	}
-	if err := checkMemory(res); err != nil {
+	if err := in.checkMemory(res); err != nil {
 		return nil, err
 	}
 	open := res.HasAmbient()

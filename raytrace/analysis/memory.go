@@ -5,6 +5,7 @@ import (
 	"runtime"
 
 	"github.com/hemiray/hemiray/raytrace"
+	"github.com/hemiray/hemiray/raytrace/exchange"
 )
 
 // bytesPerEntry is what the analysis holds per entry of a matrix it is
@@ -36,11 +37,19 @@ func AnalysisBytes(res *raytrace.Result) int64 {
 
 // checkMemory refuses an analysis that would need more memory than the
 // machine has free, rather than let the system kill it part way (the
-// tallies are saved: solve can take them up on a larger machine).
-func checkMemory(res *raytrace.Result) error {
+// tallies are saved: solve can take them up on a larger machine). The
+// exchange areas count too when the case asks for conductances.
+func (in *Input) checkMemory(res *raytrace.Result) error {
 	need, have := AnalysisBytes(res), availableMemory()
+	if c := in.Case.Output.Conductances; c == nil || *c {
+		entries := 0
+		for i := range res.Hits {
+			entries += res.Hits[i].Len()
+		}
+		need += exchange.ExchangeBytes(len(res.Nodes), entries)
+	}
 	if have > 0 && need > have {
-		return fmt.Errorf("the analysis of these tallies needs about %.1f GiB (%.3g entries of the matrix with its replicates in work), more than the %.1f GiB free: run hemiray solve on the same case on a machine with more memory (the tallies are in the output folder's tallies.bin), or use fewer replicates",
+		return fmt.Errorf("the analysis of these tallies needs about %.1f GiB (%.3g entries of the matrix with its replicates in work), more than the %.1f GiB free: run hemiray solve on the same case on a machine with more memory (the tallies are in the output folder's tallies.bin), or use fewer replicates (or --no-conductances)",
 			float64(need)/(1<<30), float64(need)/bytesPerEntry, float64(have)/(1<<30))
 	}
 	return nil

@@ -49,6 +49,35 @@ func (c *Conductors) Kept() int {
 	return k
 }
 
+// ConductorDenseLimit is the most nodes whose exchange areas TotalExchange
+// takes from a dense factorisation (5.8 GB at 12,000 nodes): where most
+// pairs see each other it beats the column solves, whose cost grows as
+// nodes × entries of F (at 6,000 nodes and 1/8 of the pairs in view they
+// take about as long, 130–160 s; with every pair in view, about 8 times
+// as long).
+const ConductorDenseLimit = 12000
+
+// conductorDenseLimit is ConductorDenseLimit, lowered by tests to exercise
+// the column solves.
+var conductorDenseLimit = ConductorDenseLimit
+
+// denseConductors says whether TotalExchange takes the dense path for n
+// nodes with entries entries of F (black: no reflections to sum).
+func denseConductors(n, entries int, black bool) bool {
+	return n <= conductorDenseLimit && 8*entries >= n*n && !black
+}
+
+// ExchangeBytes estimates the memory TotalExchange needs for n nodes and
+// entries entries of F: 40·n² bytes on the dense path, else the symmetric
+// matrix and the conductors (about 40 bytes an entry) and the workers'
+// block vectors.
+func ExchangeBytes(n, entries int) int64 {
+	if denseConductors(n, entries, false) {
+		return 40 * int64(n) * int64(n)
+	}
+	return 40*int64(entries) + int64(runtime.GOMAXPROCS(0))*6*8*blockWidth*int64(n)
+}
+
 // cgTolerance is the relative residual at which a column's solve stops:
 // far below the Monte Carlo error of any view factor.
 const cgTolerance = 1e-10
@@ -63,9 +92,10 @@ const blockWidth = 16
 // S_ij < threshold·min(ε_iA_i, ε_jA_j) are left out and their share
 // reported per node.
 //
-// Gebhart's factors come from one dense LU factorisation (memory 3·8·n²
-// bytes; about 0.5·n³ ns on this project's machine, 14 s at 3,000 nodes)
-// up to DenseLimit nodes when more than 1/8 of the pairs see each other;
+// Gebhart's factors come from one dense LU factorisation (memory about
+// 40·n² bytes; on this project's machine 14–19 s at 3,000 nodes, 159 s at
+// 6,000, cubic beyond) up to ConductorDenseLimit nodes when more than 1/8
+// of the pairs see each other;
 // otherwise, where the column solves below cost less (about 8 passes of
 // 0.6 ns per entry of F per column), each column comes from a sparse
 // symmetric solve: with K = AF
@@ -110,7 +140,7 @@ func TotalExchange(area, eps []float64, F []Row, ambient []float64, threshold fl
 	for _, e := range eps {
 		black = black && e == 1
 	}
-	if n <= denseLimit && 8*entries >= n*n && !black {
+	if denseConductors(n, entries, black) {
 		S, amb, err := denseExchangeAreas(area, eps, F, ambient)
 		if err != nil {
 			return nil, err

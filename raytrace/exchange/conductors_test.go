@@ -16,8 +16,8 @@ func bothPaths(t *testing.T, p Problem) []*Conductors {
 	if err != nil {
 		t.Fatal(err)
 	}
-	denseLimit = 0
-	defer func() { denseLimit = DenseLimit }()
+	conductorDenseLimit = 0
+	defer func() { conductorDenseLimit = ConductorDenseLimit }()
 	iter, err := TotalExchange(p.Area, p.Emissivity, p.F, p.Ambient, 0)
 	if err != nil {
 		t.Fatal(err)
@@ -142,10 +142,10 @@ func TestTotalExchangeThreshold(t *testing.T) {
 	const tau = 0.01
 	for _, iterative := range []bool{false, true} {
 		if iterative {
-			denseLimit = 0
+			conductorDenseLimit = 0
 		}
 		c, err := TotalExchange(p.Area, p.Emissivity, p.F, p.Ambient, tau)
-		denseLimit = DenseLimit
+		conductorDenseLimit = ConductorDenseLimit
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -186,8 +186,8 @@ func BenchmarkTotalExchange(b *testing.B) {
 		for _, dense := range []bool{true, false} {
 			b.Run(fmt.Sprintf("density=%g/dense=%v", density, dense), func(b *testing.B) {
 				if !dense {
-					denseLimit = 0
-					defer func() { denseLimit = DenseLimit }()
+					conductorDenseLimit = 0
+					defer func() { conductorDenseLimit = ConductorDenseLimit }()
 				}
 				var c *Conductors
 				for b.Loop() {

@@ -10,8 +10,8 @@ import (
 // in m², symmetrised (they are equal up to round-off when F is reciprocal),
 // and each node's exchange area with the ambient ε_i A_i B_i,amb, where B
 // are Gebhart's absorption factors B = (I − F R)⁻¹ [F E | F_amb]. Multiply
-// by Sigma for radiative conductances in W/K⁴. Dense: at most DenseLimit
-// nodes.
+// by Sigma for radiative conductances in W/K⁴. Dense: at most
+// ConductorDenseLimit nodes.
 func denseExchangeAreas(area, eps []float64, F []Row, ambient []float64) (S [][]float64, toAmbient []float64, err error) {
 	n := len(area)
 	if len(eps) != n || len(F) != n || (ambient != nil && len(ambient) != n) {
@@ -22,8 +22,8 @@ func denseExchangeAreas(area, eps []float64, F []Row, ambient []float64) (S [][]
 			return nil, nil, fmt.Errorf("exchange: row %d of F: columns must increase within [0, %d), one value each", i, n)
 		}
 	}
-	if n > DenseLimit {
-		return nil, nil, fmt.Errorf("exchange: exchange factors of %d nodes need a dense %d² solve; the limit is %d", n, n, DenseLimit)
+	if n > ConductorDenseLimit {
+		return nil, nil, fmt.Errorf("exchange: exchange factors of %d nodes need a dense %d² solve; the limit is %d", n, n, ConductorDenseLimit)
 	}
 	m := mat.NewDense(n, n, nil)
 	rhs := mat.NewDense(n, n+1, nil)
