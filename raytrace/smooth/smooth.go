@@ -92,7 +92,14 @@ func Smooth(in Counts) (*Result, error) {
 	// transpose: pairs come out in (i, j) order, so every floating-point sum,
 	// and so the result, is the same bit for bit from run to run.
 	tr := sparse.Transpose(in.Hits)
-	var offd []pair
+	entries := 0
+	for i := range n {
+		entries += in.Hits[i].Len()
+	}
+	// Every pair seen has a count in at least one direction, so there are
+	// at most as many pairs as entries: one allocation instead of a slice
+	// that doubles (10⁷ pairs and more at 10⁴ nodes).
+	offd := make([]pair, 0, entries)
 	diagC := make([]float64, n) // k_ii + k_i,amb
 	for i := range n {
 		diagC[i] = amb(i)
