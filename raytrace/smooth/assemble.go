@@ -1,10 +1,6 @@
 package smooth
 
-import (
-	"math"
-
-	"github.com/hemiray/hemiray/raytrace/internal/sparse"
-)
+import "math"
 
 // assemble builds the smoothed rows from λ and measures the change. tr is
 // the transpose of the counts (see transpose).
@@ -26,63 +22,97 @@ func assemble(in Counts, tr []CountRow, lam []float64, iters int) *Result {
 		return (newF - rawF) / s
 	}
 	// Largest raw and smoothed exchange areas, to scale reciprocity errors.
-	maxRaw, maxNew := 0.0, 0.0
+	maxRaw, maxNew, recip := 0.0, 0.0, 0.0
 	for i := range n {
 		for _, k := range in.Hits[i].Val {
-			maxRaw = math.Max(maxRaw, in.Area[i]*raw(i, k))
+			maxRaw = max(maxRaw, in.Area[i]*raw(i, k))
 		}
 	}
+	// Row i's columns are the union of row i and column i of the counts
+	// (smoothing shares each pair's counts between both directions). Count
+	// them first, so that all rows share three arrays of the exact size.
+	start := make([]int, n+1)
 	for i := range n {
+		start[i+1] = start[i] + unionLen(in.Hits[i].Col, tr[i].Col)
+	}
+	cols, vals, moves := make([]int32, start[n]), make([]float64, start[n]), make([]float64, start[n])
+	for i := range n {
+		a, b := &in.Hits[i], &tr[i]
+		lo, hi := start[i], start[i+1]
+		col, val, mv := cols[lo:hi:hi], vals[lo:hi:hi], moves[lo:hi:hi]
+		rays, area, li := float64(in.Rays[i]), in.Area[i], lam[i]
 		rawSum, newSum := 0.0, 0.0
 		if in.Ambient != nil {
 			rawSum += raw(i, in.Ambient[i])
 		}
-		// Columns are the union of row i and column i: smoothing shares each
-		// pair's counts between both directions.
-		size := in.Hits[i].Len() + tr[i].Len()
-		res.F[i] = FactorRow{Col: make([]int32, 0, size), Val: make([]float64, 0, size)}
-		res.Moved[i] = make([]float64, 0, size)
-		mergeRows(&in.Hits[i], &tr[i], func(j int32, kij, kji int64) {
+		x, y := 0, 0
+		for e := range col {
+			// The next column of the union, with its count in each
+			// direction (0 where absent).
+			var j int32
+			var kij, kji int64
+			switch {
+			case y == len(b.Col) || (x < len(a.Col) && a.Col[x] < b.Col[y]):
+				j, kij = a.Col[x], a.Val[x]
+				x++
+			case x == len(a.Col) || b.Col[y] < a.Col[x]:
+				j, kji = b.Col[y], b.Val[y]
+				y++
+			default:
+				j, kij, kji = a.Col[x], a.Val[x], b.Val[y]
+				x++
+				y++
+			}
 			var s float64
 			if int(j) == i {
-				s = float64(kij) / lam[i]
+				s = float64(kij) / li
 			} else {
-				s = float64(kij+kji) / (lam[i] + lam[j])
+				s = float64(kij+kji) / (li + lam[j])
 			}
-			f := s / in.Area[i]
-			maxNew = math.Max(maxNew, s)
-			m := moved(i, raw(i, kij), f)
-			res.MaxMoved = math.Max(res.MaxMoved, math.Abs(m))
-			res.F[i].Append(j, f)
-			res.Moved[i] = append(res.Moved[i], m)
-			rawSum += raw(i, kij)
+			f := s / area
+			rawF := float64(kij) / rays
+			m := moved(i, rawF, f)
+			col[e], val[e], mv[e] = j, f, m
+			maxNew = max(maxNew, s)
+			res.MaxMoved = max(res.MaxMoved, math.Abs(m))
+			rawSum += rawF
 			newSum += f
 			back := raw(int(j), kji)
-			res.ReciprocityBefore = math.Max(res.ReciprocityBefore, math.Abs(in.Area[i]*raw(i, kij)-in.Area[j]*back)/maxRaw)
-		})
+			res.ReciprocityBefore = max(res.ReciprocityBefore, math.Abs(area*rawF-in.Area[j]*back)/maxRaw)
+			// Row j holds s/A_j for this pair, from the same s (λ_i + λ_j
+			// is λ_j + λ_i bit for bit), so its reciprocity error is known
+			// here without a transpose of the result.
+			recip = max(recip, math.Abs(area*f-in.Area[j]*(s/in.Area[j])))
+		}
+		res.F[i], res.Moved[i] = FactorRow{Col: col, Val: val}, mv
 		if in.Ambient != nil && in.Ambient[i] > 0 {
 			res.Ambient[i] = float64(in.Ambient[i]) / lam[i] / in.Area[i]
 			res.MovedAmbient[i] = moved(i, raw(i, in.Ambient[i]), res.Ambient[i])
-			res.MaxMoved = math.Max(res.MaxMoved, math.Abs(res.MovedAmbient[i]))
+			res.MaxMoved = max(res.MaxMoved, math.Abs(res.MovedAmbient[i]))
 		}
-		res.SummationBefore = math.Max(res.SummationBefore, math.Abs(1-rawSum))
-		res.SummationAfter = math.Max(res.SummationAfter, math.Abs(1-newSum-res.Ambient[i]))
+		res.SummationBefore = max(res.SummationBefore, math.Abs(1-rawSum))
+		res.SummationAfter = max(res.SummationAfter, math.Abs(1-newSum-res.Ambient[i]))
 	}
-	// The smoothed pattern is symmetric (each row is the union of a row and
-	// a column of the counts), so row i of the transpose holds the same
-	// columns as row i: walk them side by side, O(entries).
-	back := sparse.Transpose(res.F)
-	for i := range n {
-		row, col := &res.F[i], &back[i]
-		for k, j := range row.Col {
-			b := 0.0
-			if k < len(col.Col) && col.Col[k] == j {
-				b = col.Val[k]
-			} else {
-				b = res.F[j].At(int32(i)) // not expected: a pattern that is not symmetric
-			}
-			res.ReciprocityAfter = math.Max(res.ReciprocityAfter, math.Abs(in.Area[i]*row.Val[k]-in.Area[j]*b)/maxNew)
-		}
+	if maxNew > 0 {
+		res.ReciprocityAfter = recip / maxNew
 	}
 	return res
+}
+
+// unionLen is the number of distinct values in two increasing lists.
+func unionLen(a, b []int32) int {
+	x, y, n := 0, 0, 0
+	for x < len(a) && y < len(b) {
+		switch {
+		case a[x] < b[y]:
+			x++
+		case b[y] < a[x]:
+			y++
+		default:
+			x++
+			y++
+		}
+		n++
+	}
+	return n + len(a) - x + len(b) - y
 }

@@ -52,10 +52,22 @@ func (e *NodeError) Error() string { return fmt.Sprintf("smooth: node %d: %s", e
 // ErrNotConverged is returned when Newton's method fails to meet the tolerance.
 var ErrNotConverged = errors.New("smooth: Newton iteration did not converge (with few rays per node among many nodes, the pairs seen may admit no reciprocal matrix whose rows sum to 1: trace more rays per node, or make fewer, larger nodes)")
 
-// pair is an unordered node pair i < j (or i == j) with its pooled count.
-type pair struct {
-	i, j int32
-	c    float64
+// pairs are the unordered node pairs i < j seen, with their pooled counts,
+// as parallel arrays: the Hessian products stream only what they read.
+type pairs struct {
+	i, j []int32
+	c    []float64
+	// w[p] = c/(λ_i+λ_j)², the Hessian's entry, refreshed once per Newton
+	// step: the conjugate-gradient passes of a step then do no division.
+	w []float64
+}
+
+func newPairs(capacity int) pairs {
+	return pairs{i: make([]int32, 0, capacity), j: make([]int32, 0, capacity), c: make([]float64, 0, capacity)}
+}
+
+func (ps *pairs) add(i, j int32, c float64) {
+	ps.i, ps.j, ps.c = append(ps.i, i), append(ps.j, j), append(ps.c, c)
 }
 
 // Smooth returns the constrained maximum-likelihood matrix for the counts.
@@ -99,7 +111,7 @@ func Smooth(in Counts) (*Result, error) {
 	// Every pair seen has a count in at least one direction, so there are
 	// at most as many pairs as entries: one allocation instead of a slice
 	// that doubles (10⁷ pairs and more at 10⁴ nodes).
-	offd := make([]pair, 0, entries)
+	offd := newPairs(entries)
 	diagC := make([]float64, n) // k_ii + k_i,amb
 	for i := range n {
 		diagC[i] = amb(i)
@@ -108,7 +120,7 @@ func Smooth(in Counts) (*Result, error) {
 			case int(j) == i:
 				diagC[i] += float64(kij)
 			case int(j) > i:
-				offd = append(offd, pair{int32(i), j, float64(kij + kji)})
+				offd.add(int32(i), j, float64(kij+kji))
 			}
 		})
 	}
@@ -116,7 +128,7 @@ func Smooth(in Counts) (*Result, error) {
 	for i := range n {
 		lam[i] = float64(in.Rays[i]) / in.Area[i]
 	}
-	iters, err := newton(lam, in.Area, offd, diagC)
+	iters, err := newton(lam, in.Area, &offd, diagC)
 	if err != nil {
 		return nil, err
 	}
@@ -149,7 +161,7 @@ func mergeRows(a, b *CountRow, fn func(j int32, ka, kb int64)) {
 // small ones needs it (its s_ij = c_ij/(λ_i + λ_j) must sum to its large
 // area while each partner's λ_j is held high by its own small sum), and in
 // fine splits of 10⁴ nodes the optimum lies there.
-func dual(lam, area []float64, offd []pair, diagC []float64) float64 {
+func dual(lam, area []float64, offd *pairs, diagC []float64) float64 {
 	d := 0.0
 	for i, l := range lam {
 		d += l * area[i]
@@ -160,45 +172,71 @@ func dual(lam, area []float64, offd []pair, diagC []float64) float64 {
 			d -= diagC[i] * math.Log(l)
 		}
 	}
-	for _, p := range offd {
-		s := lam[p.i] + lam[p.j]
+	js, cs := offd.j[:len(offd.i)], offd.c[:len(offd.i)]
+	for p, i := range offd.i {
+		s := lam[i] + lam[js[p]]
 		if !(s > 0) {
 			return math.Inf(1)
 		}
-		d -= p.c * math.Log(s)
+		d -= cs[p] * math.Log(s)
 	}
 	return d
 }
 
 // gradient writes ∇D = A_i − Σ_j s_ij − s_i,amb into g and returns its
-// largest component relative to the area.
-func gradient(g, lam, area []float64, offd []pair, diagC []float64) float64 {
+// largest component relative to the area, and whether λ lies in D's domain
+// (see dual); outside it the figure means nothing.
+func gradient(g, lam, area []float64, offd *pairs, diagC []float64) (float64, bool) {
+	in := true
 	for i := range g {
 		g[i] = area[i] - diagC[i]/lam[i]
+		in = in && (diagC[i] == 0 || lam[i] > 0)
 	}
-	for _, p := range offd {
-		s := p.c / (lam[p.i] + lam[p.j])
-		g[p.i] -= s
-		g[p.j] -= s
+	js, cs := offd.j[:len(offd.i)], offd.c[:len(offd.i)]
+	for p, i := range offd.i {
+		j := js[p]
+		sum := lam[i] + lam[j]
+		in = in && sum > 0
+		s := cs[p] / sum
+		g[i] -= s
+		g[j] -= s
 	}
 	r := 0.0
 	for i := range g {
-		r = math.Max(r, math.Abs(g[i])/area[i])
+		r = max(r, math.Abs(g[i])/area[i])
 	}
-	return r
+	return r, in
 }
 
-// hessMul writes H·x into y: H_ii = Σ_j c_ij/(λ_i+λ_j)² + diagC_i/λ_i²,
-// H_ij = c_ij/(λ_i+λ_j)².
-func hessMul(y, x, lam []float64, offd []pair, diagC []float64) {
+// weigh refreshes the Hessian's off-diagonal entries w = c_ij/(λ_i+λ_j)²
+// and writes its diagonal, Σ_j w_ij + diagC_i/λ_i², into diag.
+func weigh(diag, lam []float64, offd *pairs, diagC []float64) {
+	for i := range diag {
+		diag[i] = diagC[i] / (lam[i] * lam[i])
+	}
+	js, cs, ws := offd.j[:len(offd.i)], offd.c[:len(offd.i)], offd.w[:len(offd.i)]
+	for p, i := range offd.i {
+		j := js[p]
+		s := lam[i] + lam[j]
+		w := cs[p] / (s * s)
+		ws[p] = w
+		diag[i] += w
+		diag[j] += w
+	}
+}
+
+// hessMul writes H·x into y: H_ii = Σ_j w_ij + diagC_i/λ_i², H_ij = w_ij,
+// with w from the last weigh.
+func hessMul(y, x, lam []float64, offd *pairs, diagC []float64) {
 	for i := range y {
 		y[i] = diagC[i] / (lam[i] * lam[i]) * x[i]
 	}
-	for _, p := range offd {
-		w := p.c / ((lam[p.i] + lam[p.j]) * (lam[p.i] + lam[p.j]))
-		s := w * (x[p.i] + x[p.j])
-		y[p.i] += s
-		y[p.j] += s
+	js, ws := offd.j[:len(offd.i)], offd.w[:len(offd.i)]
+	for p, i := range offd.i {
+		j := js[p]
+		s := ws[p] * (x[i] + x[j])
+		y[i] += s
+		y[j] += s
 	}
 }
 
@@ -208,22 +246,26 @@ const (
 )
 
 // newton minimises D over λ in place and returns the iterations used.
-func newton(lam, area []float64, offd []pair, diagC []float64) (int, error) {
+func newton(lam, area []float64, offd *pairs, diagC []float64) (int, error) {
 	n := len(lam)
-	g, step, trial := make([]float64, n), make([]float64, n), make([]float64, n)
-	d := dual(lam, area, offd, diagC)
-	gt := make([]float64, n)
+	offd.w = make([]float64, len(offd.i))
+	g, step, trial, gt := make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
+	gnorm, _ := gradient(g, lam, area, offd, diagC)
+	// D at λ, computed only when the line search needs it: a step that
+	// halves the gradient is accepted without it (the logarithms are the
+	// costliest part of an iteration).
+	d, haveD := 0.0, false
 	for it := 1; it <= maxNewton; it++ {
-		gnorm := gradient(g, lam, area, offd, diagC)
 		if gnorm < tolerance {
 			return it - 1, nil
 		}
 		// Newton step: H·step = −g, by conjugate gradients preconditioned
 		// with the diagonal of H.
-		conjugateGradient(step, g, lam, offd, diagC)
-		// Backtracking line search keeping λ > 0 (Armijo condition). Near
-		// the optimum D changes by less than its rounding; a step that
-		// shrinks the residual is then accepted on that ground.
+		conjugateGradient(step, g, lam, offd, diagC, forcing(gnorm))
+		// Backtracking line search keeping λ in the domain: accept a step
+		// that halves the gradient or meets the Armijo condition. Near the
+		// optimum D changes by less than its rounding, so the first test
+		// is what ends the iteration there.
 		slope := 0.0
 		for i := range g {
 			slope += g[i] * step[i]
@@ -233,39 +275,51 @@ func newton(lam, area []float64, offd []pair, diagC []float64) (int, error) {
 			for i := range lam {
 				trial[i] = lam[i] + t*step[i]
 			}
-			dt := dual(trial, area, offd, diagC)
-			if dt <= d+1e-4*t*slope || (!math.IsInf(dt, 1) && gradient(gt, trial, area, offd, diagC) < 0.5*gnorm) {
+			gtnorm, in := gradient(gt, trial, area, offd, diagC)
+			if in && gtnorm < 0.5*gnorm {
 				copy(lam, trial)
-				d = dt
+				g, gt, gnorm, haveD = gt, g, gtnorm, false
 				break
+			}
+			if in {
+				if !haveD {
+					d, haveD = dual(lam, area, offd, diagC), true
+				}
+				if dt := dual(trial, area, offd, diagC); dt <= d+1e-4*t*slope {
+					copy(lam, trial)
+					g, gt, gnorm, d = gt, g, gtnorm, dt
+					break
+				}
 			}
 			if t *= 0.5; k > 60 {
 				return it, ErrNotConverged
 			}
 		}
 	}
-	if gradient(g, lam, area, offd, diagC) < 1e-9 {
+	if gnorm < 1e-9 {
 		return maxNewton, nil
 	}
 	return maxNewton, ErrNotConverged
 }
 
-// conjugateGradient solves H·x = −g for x (an inexact Newton step is
-// fine: the line search guards it).
-func conjugateGradient(x, g, lam []float64, offd []pair, diagC []float64) {
+// forcing is the relative residual to which a Newton step's linear system
+// is solved: loose while the gradient is large, as tight as the gradient
+// once it is small, which keeps Newton's quadratic convergence (inexact
+// Newton: Dembo, Eisenstat & Steihaug, "Inexact Newton methods", SIAM J.
+// Numer. Anal. 19(2), 1982; Eisenstat & Walker, SIAM J. Sci. Comput.
+// 17(1), 1996). Early steps then take a few conjugate-gradient passes
+// instead of a dozen.
+func forcing(gnorm float64) float64 { return min(max(gnorm, 1e-15), 0.1) }
+
+// conjugateGradient solves H·x = −g for x to the relative residual tol (an
+// inexact Newton step is fine: the line search guards it).
+func conjugateGradient(x, g, lam []float64, offd *pairs, diagC []float64, tol float64) {
 	n := len(x)
 	diag := make([]float64, n)
-	for i := range diag {
-		diag[i] = diagC[i] / (lam[i] * lam[i])
-	}
-	for _, p := range offd {
-		w := p.c / ((lam[p.i] + lam[p.j]) * (lam[p.i] + lam[p.j]))
-		diag[p.i] += w
-		diag[p.j] += w
-	}
+	weigh(diag, lam, offd, diagC)
 	b := make([]float64, n)
 	for i := range b {
 		b[i] = -g[i]
 	}
-	sparse.CG(func(y, v []float64) { hessMul(y, v, lam, offd, diagC) }, diag, b, x, 1e-15, 10*n+100)
+	sparse.CG(func(y, v []float64) { hessMul(y, v, lam, offd, diagC) }, diag, b, x, tol, 10*n+100)
 }

@@ -3,6 +3,7 @@ package smooth
 import (
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"github.com/hemiray/hemiray/geometry"
@@ -282,6 +283,94 @@ func TestSmoothLargeNodeOnSmallOnes(t *testing.T) {
 	} {
 		if math.Abs(x.got-x.want) > 1e-12 {
 			t.Errorf("%s = %v, want %v", x.name, x.got, x.want)
+		}
+	}
+}
+
+// The diagnostics of a Result, recomputed from its matrix and the counts
+// by their definitions, on nodes of unequal area (so that A_i and A_j
+// cannot stand in for each other): 1.9, 1 and 1, with the matrix of
+// TestSmoothLargeNodeOnSmallOnes, counts drawn over several seeds.
+func TestDiagnosticsRecomputed(t *testing.T) {
+	area := []float64{1.9, 1, 1}
+	F := [][]float64{{0, 0.5, 0.5}, {0.95, 0, 0}, {0.95, 0, 0}}
+	rng := rand.New(rand.NewPCG(5, 5))
+	for seed := range 5 {
+		c := sampleCounts(rng, area, F, []float64{0, 0.05, 0.05}, 400)
+		r, err := Smooth(c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		S, n := dense(r, 3), 3
+		raw := func(i, j int) float64 { return float64(c.Hits[i].At(int32(j))) / float64(c.Rays[i]) }
+		var maxRaw, maxNew, recBefore, recAfter, sumBefore, sumAfter, moved float64
+		for i := range n {
+			for j := range n {
+				maxRaw, maxNew = max(maxRaw, area[i]*raw(i, j)), max(maxNew, area[i]*S[i][j])
+			}
+		}
+		for i := range n {
+			rs := float64(c.Ambient[i]) / float64(c.Rays[i])
+			ss := r.Ambient[i]
+			for j := range n {
+				recBefore = max(recBefore, math.Abs(area[i]*raw(i, j)-area[j]*raw(j, i))/maxRaw)
+				recAfter = max(recAfter, math.Abs(area[i]*S[i][j]-area[j]*S[j][i])/maxNew)
+				rs += raw(i, j)
+				ss += S[i][j]
+			}
+			sumBefore, sumAfter = max(sumBefore, math.Abs(1-rs)), max(sumAfter, math.Abs(1-ss))
+			for k, j := range r.F[i].Col {
+				rf := raw(i, int(j))
+				se := math.Sqrt(rf * (1 - rf) / float64(c.Rays[i]))
+				if want := (r.F[i].Val[k] - rf) / se; math.Abs(r.Moved[i][k]-want) > 1e-12*math.Abs(want) {
+					t.Errorf("seed %d: moved[%d][%d] = %v, want %v", seed, i, j, r.Moved[i][k], want)
+				}
+				moved = max(moved, math.Abs(r.Moved[i][k]))
+			}
+			moved = max(moved, math.Abs(r.MovedAmbient[i]))
+		}
+		for _, d := range []struct {
+			name      string
+			got, want float64
+		}{
+			{"ReciprocityBefore", r.ReciprocityBefore, recBefore}, {"ReciprocityAfter", r.ReciprocityAfter, recAfter},
+			{"SummationBefore", r.SummationBefore, sumBefore}, {"SummationAfter", r.SummationAfter, sumAfter},
+			{"MaxMoved", r.MaxMoved, moved},
+		} {
+			if math.Abs(d.got-d.want) > 1e-14+1e-12*d.want {
+				t.Errorf("seed %d: %s = %v, recomputed %v", seed, d.name, d.got, d.want)
+			}
+		}
+	}
+}
+
+// BenchmarkSmoothClosed smooths the counts of a closed enclosure of 10⁴
+// equal nodes that all see each other (F_ij = 1/N: the inside of a sphere),
+// 1,000 rays a node: about 10⁷ entries, the shape of the scale benchmark's
+// pooled tally.
+func BenchmarkSmoothClosed(b *testing.B) {
+	const n, rays = 10000, 1000
+	c := Counts{Area: make([]float64, n), Rays: make([]int64, n), Hits: make([]CountRow, n)}
+	rng := rand.New(rand.NewPCG(3, 3))
+	hit := make([]int32, rays)
+	for i := range n {
+		c.Area[i], c.Rays[i] = 1, rays
+		for r := range hit {
+			hit[r] = int32(rng.IntN(n))
+		}
+		slices.Sort(hit)
+		for r, j := range hit {
+			if r > 0 && hit[r-1] == j {
+				c.Hits[i].Val[c.Hits[i].Len()-1]++
+				continue
+			}
+			c.Hits[i].Append(j, 1)
+		}
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := Smooth(c); err != nil {
+			b.Fatal(err)
 		}
 	}
 }
