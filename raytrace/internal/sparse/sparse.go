@@ -42,7 +42,9 @@ func FromTriplets(n int, rows, cols []int, vals []float64) *CSR {
 	out := 0
 	for r := range n {
 		lo, hi := c.Start[r], c.Start[r+1]
-		sort.Sort(rowSegment{col[lo:hi], val[lo:hi]})
+		if !slices.IsSorted(col[lo:hi]) { // assembled in order, as a rule
+			sort.Sort(rowSegment{col[lo:hi], val[lo:hi]})
+		}
 		c.Start[r] = out
 		for k := lo; k < hi; k++ {
 			if out > c.Start[r] && col[out-1] == col[k] {
@@ -85,35 +87,36 @@ func (c *CSR) At(r, col int) float64 {
 	return 0
 }
 
-// Symmetric reports whether c equals its transpose to a relative 1e-9, in
-// O(entries): the transpose is built once and walked beside each row.
+// Symmetric reports whether c equals its transpose (pattern, and values to
+// a relative 1e-9), in O(entries) and without a copy of c.
 func (c *CSR) Symmetric() bool {
-	count := make([]int, c.N+1)
-	for _, j := range c.Col {
-		count[j+1]++
-	}
+	// Rows are visited in order, so the entries (j, r) that mirror row r's
+	// entries below the diagonal come up in row j in increasing r: one
+	// cursor per row, past its diagonal, pairs them without a transpose.
+	next := make([]int, c.N)
 	for j := range c.N {
-		count[j+1] += count[j]
+		k := c.Start[j]
+		for k < c.Start[j+1] && c.Col[k] <= j {
+			k++
+		}
+		next[j] = k
 	}
-	tCol, tVal := make([]int, len(c.Col)), make([]float64, len(c.Val))
-	next := slices.Clone(count[:c.N])
 	for r := range c.N {
-		for k := c.Start[r]; k < c.Start[r+1]; k++ {
+		for k := c.Start[r]; k < c.Start[r+1] && c.Col[k] < r; k++ {
 			j := c.Col[k]
-			tCol[next[j]], tVal[next[j]] = r, c.Val[k]
+			m := next[j]
+			if m == c.Start[j+1] || c.Col[m] != r {
+				return false
+			}
+			if v, w := c.Val[k], c.Val[m]; math.Abs(v-w) > 1e-9*math.Max(math.Abs(v), math.Abs(w)) {
+				return false
+			}
 			next[j]++
 		}
 	}
-	for r := range c.N {
-		lo, hi := c.Start[r], c.Start[r+1]
-		if hi-lo != count[r+1]-count[r] {
+	for j := range c.N { // every entry above the diagonal was paired
+		if next[j] != c.Start[j+1] {
 			return false
-		}
-		for k, t := lo, count[r]; k < hi; k, t = k+1, t+1 {
-			v, w := c.Val[k], tVal[t]
-			if c.Col[k] != tCol[t] || math.Abs(v-w) > 1e-9*math.Max(math.Abs(v), math.Abs(w)) {
-				return false
-			}
 		}
 	}
 	return true

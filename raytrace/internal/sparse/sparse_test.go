@@ -3,6 +3,7 @@ package sparse
 import (
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 )
 
@@ -51,6 +52,56 @@ func TestCGPoisson(t *testing.T) {
 	neg := FromTriplets(2, []int{0, 1}, []int{0, 1}, []float64{1, -1})
 	if CG(neg.Mul, []float64{1, 1}, []float64{1, 1}, make([]float64, 2), 1e-12, 10) {
 		t.Error("CG claims convergence on an indefinite matrix")
+	}
+}
+
+// Symmetric against the definition A = Aᵀ, on a random symmetric matrix
+// and on copies of it with one entry changed, one mirror missing, or rows
+// assembled out of column order.
+func TestSymmetricCases(t *testing.T) {
+	rng := rand.New(rand.NewPCG(9, 9))
+	const n = 40
+	var rows, cols []int
+	var vals []float64
+	for i := range n {
+		rows, cols, vals = append(rows, i), append(cols, i), append(vals, 4)
+		for j := i + 1; j < n; j++ {
+			if rng.IntN(4) == 0 {
+				v := rng.Float64()
+				rows, cols, vals = append(rows, i, j), append(cols, j, i), append(vals, v, v)
+			}
+		}
+	}
+	changed := slices.Clone(vals)
+	changed[slices.IndexFunc(rows, func(r int) bool { return r != 0 })-1] *= 1 + 1e-6 // row 0's last entry, off the diagonal
+	shuffled := rng.Perm(len(rows))
+	perm := func(x []int) []int {
+		y := make([]int, len(x))
+		for k, p := range shuffled {
+			y[k] = x[p]
+		}
+		return y
+	}
+	permVals := make([]float64, len(vals))
+	for k, p := range shuffled {
+		permVals[k] = vals[p]
+	}
+	for _, tc := range []struct {
+		name       string
+		rows, cols []int
+		vals       []float64
+		want       bool
+	}{
+		{"symmetric", rows, cols, vals, true},
+		{"one value changed", rows, cols, changed, false},
+		{"upper entry without its mirror", append(slices.Clone(rows), 0), append(slices.Clone(cols), n-1), append(slices.Clone(vals), 7), false},
+		{"lower entry without its mirror", append(slices.Clone(rows), n-1), append(slices.Clone(cols), 0), append(slices.Clone(vals), 7), false},
+		{"assembled out of order", perm(rows), perm(cols), permVals, true},
+		{"a mirror in the wrong column", []int{0, 1, 2, 0, 1}, []int{0, 1, 2, 2, 0}, []float64{4, 4, 4, 7, 7}, false},
+	} {
+		if got := FromTriplets(n, tc.rows, tc.cols, tc.vals).Symmetric(); got != tc.want {
+			t.Errorf("%s: Symmetric() = %v, want %v", tc.name, got, tc.want)
+		}
 	}
 }
 
