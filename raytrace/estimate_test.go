@@ -409,3 +409,37 @@ func TestRQMCIntervalCoverage(t *testing.T) {
 		}
 	}
 }
+
+// Row walks the replicates' rows beside the pooled one; each entry it gives
+// must be the entry Factor looks up on its own (binary search per
+// replicate), on a facet-node model with so few rays that the replicates'
+// rows miss columns the pool has.
+func TestRowMatchesFactor(t *testing.T) {
+	m := mesh.Box("box", geometry.Box{Max: geometry.Vec3{X: 1, Y: 1, Z: 1}}, 4, true)
+	r, err := Estimate(context.Background(), m, Options{Settings: Settings{Rays: 60, Seed: 4, Replicates: 4, FacetNodes: true}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	partial := 0
+	for i := range r.Nodes {
+		seen, w := 0, 0.0
+		r.Row(i, func(j int, f Factor) {
+			if want := r.Factor(i, j); f != want {
+				t.Fatalf("Row(%d) at %d = %+v, Factor = %+v", i, j, f, want)
+			}
+			for q := range r.Replicas {
+				if j < len(r.Nodes) && r.Replicas[q].Hits[i].At(int32(j)) == 0 {
+					partial++
+				}
+			}
+			seen++
+			w = max(w, f.HalfWidth)
+		})
+		if seen != r.Hits[i].Len()+min(1, int(r.Escaped[i])) {
+			t.Fatalf("Row(%d) gave %d entries, want %d", i, seen, r.Hits[i].Len())
+		}
+	}
+	if partial == 0 {
+		t.Fatal("every replicate saw every column: the test does not exercise the walk")
+	}
+}

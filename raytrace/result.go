@@ -87,11 +87,34 @@ func (r *Result) Factor(i, j int) Factor {
 	return r.replicated(i, j, r.factor(r.Hits[i].At(int32(j)), r.Rays[i]))
 }
 
-// Row calls fn for every non-zero entry of row i, ambient last.
+// Row calls fn for every non-zero entry of row i, ambient last. The
+// replicates' rows are walked beside the pooled one (their columns are a
+// subset of its columns), O(entries × replicates) with no search.
 func (r *Result) Row(i int, fn func(j int, f Factor)) {
 	row := &r.Hits[i]
+	var ks []int64
+	var pos []int
+	if r.spreadApplies(i) {
+		ks, pos = make([]int64, len(r.Replicas)), make([]int, len(r.Replicas))
+	}
 	for k, c := range row.Col {
-		fn(int(c), r.replicated(i, int(c), r.factor(row.Val[k], r.Rays[i])))
+		f := r.factor(row.Val[k], r.Rays[i])
+		if ks != nil && f.Hits > 0 {
+			for q := range r.Replicas {
+				rq := &r.Replicas[q].Hits[i]
+				p := pos[q]
+				for p < len(rq.Col) && rq.Col[p] < c {
+					p++
+				}
+				ks[q] = 0
+				if p < len(rq.Col) && rq.Col[p] == c {
+					ks[q] = rq.Val[p]
+				}
+				pos[q] = p
+			}
+			f = r.spread(i, f, ks)
+		}
+		fn(int(c), f)
 	}
 	if r.Escaped[i] > 0 {
 		fn(r.Ambient(), r.replicated(i, r.Ambient(), r.factor(r.Escaped[i], r.Rays[i])))
@@ -111,21 +134,41 @@ func (r *Result) Row(i int, fn func(j int, f Factor)) {
 // replicate hit keeps its Wilson interval [0, z²/(N+z²)]: the spread of
 // zeros is no evidence of precision.
 func (r *Result) replicated(i, j int, f Factor) Factor {
-	R := len(r.Replicas)
-	if r.Options.Sampling != SamplingRQMC || R < 2 || f.Hits == 0 {
+	if !r.spreadApplies(i) || f.Hits == 0 {
 		return f
 	}
-	var sum, sum2 float64
+	ks := make([]int64, len(r.Replicas))
 	for q := range r.Replicas {
 		t := &r.Replicas[q]
-		if t.Rays[i] == 0 {
-			return f // too few rays yet for every replicate
-		}
-		k := t.Escaped[i]
+		ks[q] = t.Escaped[i]
 		if j != r.Ambient() {
-			k = t.Hits[i].At(int32(j))
+			ks[q] = t.Hits[i].At(int32(j))
 		}
-		x := float64(k) / float64(t.Rays[i])
+	}
+	return r.spread(i, f, ks)
+}
+
+// spreadApplies reports whether row i's intervals come from the replicates:
+// RQMC sampling, at least two replicates, and rays in every one of them.
+func (r *Result) spreadApplies(i int) bool {
+	if r.Options.Sampling != SamplingRQMC || len(r.Replicas) < 2 {
+		return false
+	}
+	for q := range r.Replicas {
+		if r.Replicas[q].Rays[i] == 0 {
+			return false // too few rays yet for every replicate
+		}
+	}
+	return true
+}
+
+// spread gives f the Student-t interval of the replicates' estimates
+// k_q/N_q of row i (see replicated).
+func (r *Result) spread(i int, f Factor, ks []int64) Factor {
+	R := len(r.Replicas)
+	var sum, sum2 float64
+	for q, k := range ks {
+		x := float64(k) / float64(r.Replicas[q].Rays[i])
 		sum, sum2 = sum+x, sum2+x*x
 	}
 	mean := sum / float64(R)
