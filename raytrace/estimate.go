@@ -72,9 +72,9 @@ type Progress struct {
 // worst returns the widest row half-width over the nodes with rays.
 func (r *Result) worst() float64 {
 	w := 0.0
-	for i := range r.Nodes {
+	for i, wi := range r.RowHalfWidths() {
 		if r.Rays[i] > 0 {
-			w = max(w, r.RowHalfWidth(i))
+			w = max(w, wi)
 		}
 	}
 	return w
@@ -201,8 +201,9 @@ func (r *Result) NextTargets() (next []int64, more bool) {
 	if r.Options.HalfWidth == 0 {
 		return next, false
 	}
+	widths := r.RowHalfWidths()
 	for i := range next {
-		if next[i] < r.Options.MaxRays && r.RowHalfWidth(i) > r.Options.HalfWidth {
+		if next[i] < r.Options.MaxRays && widths[i] > r.Options.HalfWidth {
 			next[i] = min(2*next[i], r.Options.MaxRays)
 			more = true
 		}

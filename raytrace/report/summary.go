@@ -111,9 +111,10 @@ func newSummary(in *analysis.Input, t *analysis.Traced, a *analysis.Result, warn
 		s.HalfWidthMissed = append(s.HalfWidthMissed, MissedRow{Node: res.Nodes[m.Node].Name, HalfWidth: m.HalfWidth, Rays: m.Rays})
 	}
 	open := res.HasAmbient()
+	widths := res.RowHalfWidths()
 	for i, n := range res.Nodes {
 		ns := NodeSummary{Name: n.Name, AreaM2: n.Area, Rays: res.Rays[i], RowSum: res.RowSum(i),
-			BackFaceHits: res.Back[i].Sum(), MaxHalfWidth: res.RowHalfWidth(i)}
+			BackFaceHits: res.Back[i].Sum(), MaxHalfWidth: widths[i]}
 		if open {
 			ns.ToAmbient = res.Factor(i, res.Ambient()).F
 		}

@@ -38,7 +38,7 @@ func Write(path string, write func(w io.Writer) error) error {
 		return fmt.Errorf("write %s: no free temporary name", path)
 	}
 	defer os.Remove(tmp.Name())
-	bw := bufio.NewWriterSize(tmp, 1<<16)
+	bw := bufio.NewWriterSize(piecewise{tmp}, 1<<16)
 	err := write(bw)
 	if err == nil {
 		err = bw.Flush()
@@ -53,4 +53,25 @@ func Write(path string, write func(w io.Writer) error) error {
 		return fmt.Errorf("write %s: %w", path, err)
 	}
 	return os.Rename(tmp.Name(), path)
+}
+
+// piecewise passes writes to the file at most 1 MiB at a time. On the
+// development machine a single write of 15 MB of already formatted text
+// took from 0.02 to 0.2 s (a 600 MB file in 0.26 to 3.9 s, runs apart),
+// while 1 MiB writes of the same bytes took 0.2–0.3 s for the file every
+// time; bufio hands writes larger than its buffer straight through.
+type piecewise struct{ f *os.File }
+
+func (p piecewise) Write(b []byte) (int, error) {
+	const most = 1 << 20
+	n := 0
+	for len(b) > 0 {
+		k, err := p.f.Write(b[:min(len(b), most)])
+		n += k
+		if err != nil {
+			return n, err
+		}
+		b = b[k:]
+	}
+	return n, nil
 }
