@@ -22,14 +22,14 @@ var ErrNotConverged = errors.New("exchange: iterative solver did not converge")
 // system is the assembled linear system in sparse triplet form.
 type system struct {
 	n    int
-	rows []int
-	cols []int
+	rows []int32
+	cols []int32
 	vals []float64
 	rhs  []float64
 }
 
 func (s *system) add(r, c int, v float64) {
-	s.rows, s.cols, s.vals = append(s.rows, r), append(s.cols, c), append(s.vals, v)
+	s.rows, s.cols, s.vals = append(s.rows, int32(r)), append(s.cols, int32(c)), append(s.vals, v)
 }
 
 // Solve solves the enclosure.
@@ -93,7 +93,7 @@ func Solve(p Problem) (*Solution, error) {
 	for k := range p.F {
 		entries += p.F[k].Len()
 	}
-	s.rows, s.cols, s.vals = make([]int, 0, entries), make([]int, 0, entries), make([]float64, 0, entries)
+	s.rows, s.cols, s.vals = make([]int32, 0, entries), make([]int32, 0, entries), make([]float64, 0, entries)
 	// irradiation adds row r's terms −a·Σ_j F_kj J_j + (RHS) a·F_amb·σT_amb⁴.
 	irradiation := func(r, k int, a float64) {
 		for i, j := range p.F[k].Col {
@@ -210,7 +210,8 @@ func (s *system) solve() ([]float64, bool, error) {
 	if s.n <= denseLimit {
 		m := mat.NewDense(s.n, s.n, nil)
 		for k := range s.rows {
-			m.Set(s.rows[k], s.cols[k], m.At(s.rows[k], s.cols[k])+s.vals[k])
+			r, c := int(s.rows[k]), int(s.cols[k])
+			m.Set(r, c, m.At(r, c)+s.vals[k])
 		}
 		var lu mat.LU
 		lu.Factorize(m)
@@ -246,7 +247,7 @@ func gaussSeidel(c *sparse.CSR, b []float64) ([]float64, error) {
 		for r := range c.N {
 			s := b[r]
 			for k := c.Start[r]; k < c.Start[r+1]; k++ {
-				if c.Col[k] != r {
+				if int(c.Col[k]) != r {
 					s -= c.Val[k] * x[c.Col[k]]
 				}
 			}

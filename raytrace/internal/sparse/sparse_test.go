@@ -11,9 +11,9 @@ import (
 // x = 1 (a standard test problem, e.g. Saad 2003, ch. 2; common practice).
 func TestCGPoisson(t *testing.T) {
 	const n = 50
-	var rows, cols []int
+	var rows, cols []int32
 	var vals []float64
-	for i := range n {
+	for i := range int32(n) {
 		rows, cols, vals = append(rows, i), append(cols, i), append(vals, 2)
 		if i > 0 {
 			rows, cols, vals = append(rows, i, i), append(cols, i-1, i-1), append(vals, -0.5, -0.5) // summed to −1
@@ -45,11 +45,11 @@ func TestCGPoisson(t *testing.T) {
 		}
 	}
 	// Asymmetric values, and an asymmetric pattern, are told apart.
-	if FromTriplets(2, []int{0, 1}, []int{1, 0}, []float64{1, 2}).Symmetric() || FromTriplets(2, []int{0}, []int{1}, []float64{1}).Symmetric() {
+	if FromTriplets(2, []int32{0, 1}, []int32{1, 0}, []float64{1, 2}).Symmetric() || FromTriplets(2, []int32{0}, []int32{1}, []float64{1}).Symmetric() {
 		t.Error("an asymmetric matrix is taken for symmetric")
 	}
 	// An indefinite matrix is reported, not solved.
-	neg := FromTriplets(2, []int{0, 1}, []int{0, 1}, []float64{1, -1})
+	neg := FromTriplets(2, []int32{0, 1}, []int32{0, 1}, []float64{1, -1})
 	if CG(neg.Mul, []float64{1, 1}, []float64{1, 1}, make([]float64, 2), 1e-12, 10) {
 		t.Error("CG claims convergence on an indefinite matrix")
 	}
@@ -61,9 +61,9 @@ func TestCGPoisson(t *testing.T) {
 func TestSymmetricCases(t *testing.T) {
 	rng := rand.New(rand.NewPCG(9, 9))
 	const n = 40
-	var rows, cols []int
+	var rows, cols []int32
 	var vals []float64
-	for i := range n {
+	for i := range int32(n) {
 		rows, cols, vals = append(rows, i), append(cols, i), append(vals, 4)
 		for j := i + 1; j < n; j++ {
 			if rng.IntN(4) == 0 {
@@ -73,10 +73,10 @@ func TestSymmetricCases(t *testing.T) {
 		}
 	}
 	changed := slices.Clone(vals)
-	changed[slices.IndexFunc(rows, func(r int) bool { return r != 0 })-1] *= 1 + 1e-6 // row 0's last entry, off the diagonal
+	changed[slices.IndexFunc(rows, func(r int32) bool { return r != 0 })-1] *= 1 + 1e-6 // row 0's last entry, off the diagonal
 	shuffled := rng.Perm(len(rows))
-	perm := func(x []int) []int {
-		y := make([]int, len(x))
+	perm := func(x []int32) []int32 {
+		y := make([]int32, len(x))
 		for k, p := range shuffled {
 			y[k] = x[p]
 		}
@@ -88,7 +88,7 @@ func TestSymmetricCases(t *testing.T) {
 	}
 	for _, tc := range []struct {
 		name       string
-		rows, cols []int
+		rows, cols []int32
 		vals       []float64
 		want       bool
 	}{
@@ -97,10 +97,56 @@ func TestSymmetricCases(t *testing.T) {
 		{"upper entry without its mirror", append(slices.Clone(rows), 0), append(slices.Clone(cols), n-1), append(slices.Clone(vals), 7), false},
 		{"lower entry without its mirror", append(slices.Clone(rows), n-1), append(slices.Clone(cols), 0), append(slices.Clone(vals), 7), false},
 		{"assembled out of order", perm(rows), perm(cols), permVals, true},
-		{"a mirror in the wrong column", []int{0, 1, 2, 0, 1}, []int{0, 1, 2, 2, 0}, []float64{4, 4, 4, 7, 7}, false},
+		{"a mirror in the wrong column", []int32{0, 1, 2, 0, 1}, []int32{0, 1, 2, 2, 0}, []float64{4, 4, 4, 7, 7}, false},
 	} {
-		if got := FromTriplets(n, tc.rows, tc.cols, tc.vals).Symmetric(); got != tc.want {
+		// FromTriplets may take over cols and vals: give it copies.
+		if got := FromTriplets(n, tc.rows, slices.Clone(tc.cols), slices.Clone(tc.vals)).Symmetric(); got != tc.want {
 			t.Errorf("%s: Symmetric() = %v, want %v", tc.name, got, tc.want)
+		}
+	}
+}
+
+// Triplets in row order (taken over in place) and the same triplets
+// shuffled (counting-sorted into new arrays), duplicates included, give
+// the same matrix, duplicates summed.
+func TestFromTripletsInPlaceAndSorted(t *testing.T) {
+	rng := rand.New(rand.NewPCG(11, 11))
+	const n = 30
+	var rows, cols []int32
+	var vals []float64
+	for i := range int32(n) {
+		for range 1 + rng.IntN(6) {
+			rows, cols, vals = append(rows, i), append(cols, int32(rng.IntN(n))), append(vals, float64(rng.IntN(100)))
+		}
+	}
+	shuffled := rng.Perm(len(rows))
+	r2, c2, v2 := make([]int32, len(rows)), make([]int32, len(rows)), make([]float64, len(rows))
+	for k, p := range shuffled {
+		r2[k], c2[k], v2[k] = rows[p], cols[p], vals[p]
+	}
+	dense := make([][]float64, n)
+	for i := range dense {
+		dense[i] = make([]float64, n)
+	}
+	for k := range rows {
+		dense[rows[k]][cols[k]] += vals[k]
+	}
+	for _, c := range []*CSR{FromTriplets(n, rows, slices.Clone(cols), slices.Clone(vals)), FromTriplets(n, r2, c2, v2)} {
+		for i := range n {
+			if !slices.IsSorted(c.Col[c.Start[i]:c.Start[i+1]]) {
+				t.Fatalf("row %d columns not increasing: %v", i, c.Col[c.Start[i]:c.Start[i+1]])
+			}
+			for j := range n {
+				if c.At(i, j) != dense[i][j] {
+					t.Fatalf("A[%d][%d] = %v, want %v", i, j, c.At(i, j), dense[i][j])
+				}
+			}
+			if c.Diag[i] != dense[i][i] {
+				t.Fatalf("diag %d = %v, want %v", i, c.Diag[i], dense[i][i])
+			}
+		}
+		if c.Start[n] != len(c.Col) {
+			t.Fatalf("entries %d, Start[n] %d", len(c.Col), c.Start[n])
 		}
 	}
 }
