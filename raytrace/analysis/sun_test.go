@@ -117,7 +117,7 @@ func TestSunAndSky(t *testing.T) {
 }
 
 // The memory estimate counts the pooled matrix's entries and one
-// replicate per further worker, 200 bytes each.
+// replicate per further worker, bytesPerEntry each.
 func TestAnalysisBytes(t *testing.T) {
 	row := func(cols ...int32) raytrace.Row {
 		r := raytrace.Row{}
@@ -129,7 +129,7 @@ func TestAnalysisBytes(t *testing.T) {
 	res := &raytrace.Result{Tally: raytrace.Tally{Hits: []raytrace.Row{row(0, 1, 2), row(1)}},
 		Replicas: []raytrace.Tally{{Hits: []raytrace.Row{row(0), row(1)}}, {Hits: []raytrace.Row{row(0, 2), row(1)}}}}
 	side := int64(min(2, max(1, runtime.GOMAXPROCS(0)-1)))
-	if got, want := AnalysisBytes(res), 200*(4+side*3); got != want {
+	if got, want := AnalysisBytes(res), bytesPerEntry*(4+side*3); got != want {
 		t.Errorf("AnalysisBytes = %d, want %d", got, want)
 	}
 }
