@@ -67,6 +67,9 @@ confidence). The README documents the case file.`,
 		if err := j.in.Preflight(); err != nil {
 			return err
 		}
+		if n := j.in.MemoryNote(); n != "" {
+			fmt.Fprintf(stderr, "hemiray: note: %s\n", n)
+		}
 		t, err := j.trace(ctx, stderr)
 		if err != nil {
 			return err

@@ -33,8 +33,64 @@ func AnalysisBytes(res *raytrace.Result) int64 {
 	for k := range res.Replicas {
 		worst = max(worst, entries(&res.Replicas[k]))
 	}
-	side := int64(min(len(res.Replicas), max(1, runtime.GOMAXPROCS(0)-1)))
-	return bytesPerEntry * (entries(&res.Tally) + side*worst)
+	return analysisBytes(entries(&res.Tally), worst, len(res.Replicas))
+}
+
+// analysisBytes is the memory of the pooled matrix's entries in work with,
+// beside it, one replicate of worst entries per further worker.
+func analysisBytes(pooled, worst int64, replicates int) int64 {
+	side := int64(min(replicates, max(1, runtime.GOMAXPROCS(0)-1)))
+	return bytesPerEntry * (pooled + side*worst)
+}
+
+// PlannedAnalysisBytes bounds, before any ray is traced, what
+// AnalysisBytes will say after a trace of nodes nodes with settings s: a
+// row holds at most one entry per ray and one per node, so the pooled
+// matrix has at most nodes·min(nodes, rays) entries and a replicate
+// nodes·min(nodes, ⌈rays/R⌉). The bound is reached where every node sees
+// most others (a closed sphere of 10⁴ nodes at 10⁴ rays had 63 % of it);
+// a model whose nodes see few others needs far less.
+func PlannedAnalysisBytes(nodes int, s raytrace.Settings) int64 {
+	pooled, worst := plannedEntries(nodes, s)
+	return analysisBytes(pooled, worst, s.WithDefaults().Replicates)
+}
+
+// plannedEntries bounds the entries of the pooled matrix and of the
+// largest replicate (see PlannedAnalysisBytes).
+func plannedEntries(nodes int, s raytrace.Settings) (pooled, worst int64) {
+	s = s.WithDefaults()
+	rays := s.Rays
+	if s.HalfWidth > 0 {
+		rays = s.MaxRays
+	}
+	n := int64(nodes)
+	if r := int64(s.Replicates); r > 0 {
+		worst = n * min(n, (rays+r-1)/r)
+	}
+	return n * min(n, rays), worst
+}
+
+// MemoryNote warns, before a run traces, when the bound of
+// PlannedAnalysisBytes (and of the exchange areas, when asked for) exceeds
+// the memory free now; "" when it does not or the free memory is unknown.
+// It does not refuse: the bound can be far above the need, and the
+// analysis checks the real figure after the trace.
+func (in *Input) MemoryNote() string {
+	nodes, err := in.Nodes()
+	if err != nil {
+		return ""
+	}
+	need := PlannedAnalysisBytes(len(nodes), in.Settings)
+	if c := in.Case; c != nil && (c.Output.Conductances == nil || *c.Output.Conductances) {
+		pooled, _ := plannedEntries(len(nodes), in.Settings)
+		need += exchange.ExchangeBytes(len(nodes), int(pooled))
+	}
+	have := availableMemory()
+	if have <= 0 || need <= have {
+		return ""
+	}
+	return fmt.Sprintf("the analysis after the trace may need up to %.1f GiB (if every node's rays spread over as many nodes as they can), more than the %.1f GiB free now; it checks the real need before it starts and stops with a message if memory is short, the tallies saved for hemiray solve on a larger machine. Fewer rays per node, replicates or nodes lower the bound",
+		float64(need)/(1<<30), float64(have)/(1<<30))
 }
 
 // checkMemory refuses an analysis that would need more memory than the
