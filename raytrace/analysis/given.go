@@ -207,11 +207,7 @@ func (in *Input) AnalyseFactors(given []Given) (*Result, error) {
 		if err != nil {
 			return nil, err
 		}
-		for i := range sm.Moved {
-			for k := range sm.Moved[i] {
-				sm.Moved[i][k] = math.NaN()
-			}
-		}
+		sm.ForgetCounts()
 		for i := range sm.MovedAmbient {
 			sm.MovedAmbient[i] = math.NaN()
 		}

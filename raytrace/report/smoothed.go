@@ -85,7 +85,7 @@ func writeSmoothed(dir string, a *analysis.Result, pairs bool) ([]string, error)
 				if k < len(raw.Col) && raw.Col[k] == j {
 					r = raw.Val[k]
 				}
-				if err := row(n.Name, cols[j], r, sm.Val[m], a.Smoothed.Moved[i][m]); err != nil {
+				if err := row(n.Name, cols[j], r, sm.Val[m], a.Smoothed.Moved(i, m)); err != nil {
 					return err
 				}
 			}

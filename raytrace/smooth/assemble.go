@@ -6,21 +6,8 @@ import "math"
 // the transpose of the counts (see transpose).
 func assemble(in Counts, tr []CountRow, lam []float64, iters int) *Result {
 	n := len(in.Area)
-	res := &Result{F: make([]FactorRow, n), Moved: make([][]float64, n), Ambient: make([]float64, n), MovedAmbient: make([]float64, n), Iterations: iters}
+	res := &Result{F: make([]FactorRow, n), Ambient: make([]float64, n), MovedAmbient: make([]float64, n), Iterations: iters, hits: in.Hits, rays: in.Rays}
 	raw := func(i int, k int64) float64 { return float64(k) / float64(in.Rays[i]) }
-	se := func(i int, f float64) float64 { return math.Sqrt(f * (1 - f) / float64(in.Rays[i])) }
-	moved := func(i int, rawF, newF float64) float64 {
-		s := se(i, rawF)
-		if s == 0 {
-			if rawF == newF {
-				return 0
-			}
-			// A factor estimated as 0 or 1 has a zero binomial error; use the
-			// error of one count instead.
-			s = se(i, 1/float64(in.Rays[i]))
-		}
-		return (newF - rawF) / s
-	}
 	// Largest raw and smoothed exchange areas, to scale reciprocity errors.
 	maxRaw, maxNew, recip := 0.0, 0.0, 0.0
 	for i := range n {
@@ -30,16 +17,16 @@ func assemble(in Counts, tr []CountRow, lam []float64, iters int) *Result {
 	}
 	// Row i's columns are the union of row i and column i of the counts
 	// (smoothing shares each pair's counts between both directions). Count
-	// them first, so that all rows share three arrays of the exact size.
+	// them first, so that all rows share two arrays of the exact size.
 	start := make([]int, n+1)
 	for i := range n {
 		start[i+1] = start[i] + unionLen(in.Hits[i].Col, tr[i].Col)
 	}
-	cols, vals, moves := make([]int32, start[n]), make([]float64, start[n]), make([]float64, start[n])
+	cols, vals := make([]int32, start[n]), make([]float64, start[n])
 	for i := range n {
 		a, b := &in.Hits[i], &tr[i]
 		lo, hi := start[i], start[i+1]
-		col, val, mv := cols[lo:hi:hi], vals[lo:hi:hi], moves[lo:hi:hi]
+		col, val := cols[lo:hi:hi], vals[lo:hi:hi]
 		rays, area, li := float64(in.Rays[i]), in.Area[i], lam[i]
 		rawSum, newSum := 0.0, 0.0
 		if in.Ambient != nil {
@@ -71,8 +58,8 @@ func assemble(in Counts, tr []CountRow, lam []float64, iters int) *Result {
 			}
 			f := s / area
 			rawF := float64(kij) / rays
-			m := moved(i, rawF, f)
-			col[e], val[e], mv[e] = j, f, m
+			m := moved(rawF, f, in.Rays[i])
+			col[e], val[e] = j, f
 			maxNew = max(maxNew, s)
 			res.MaxMoved = max(res.MaxMoved, math.Abs(m))
 			rawSum += rawF
@@ -84,10 +71,10 @@ func assemble(in Counts, tr []CountRow, lam []float64, iters int) *Result {
 			// here without a transpose of the result.
 			recip = max(recip, math.Abs(area*f-in.Area[j]*(s/in.Area[j])))
 		}
-		res.F[i], res.Moved[i] = FactorRow{Col: col, Val: val}, mv
+		res.F[i] = FactorRow{Col: col, Val: val}
 		if in.Ambient != nil && in.Ambient[i] > 0 {
 			res.Ambient[i] = float64(in.Ambient[i]) / lam[i] / in.Area[i]
-			res.MovedAmbient[i] = moved(i, raw(i, in.Ambient[i]), res.Ambient[i])
+			res.MovedAmbient[i] = moved(raw(i, in.Ambient[i]), res.Ambient[i], in.Rays[i])
 			res.MaxMoved = max(res.MaxMoved, math.Abs(res.MovedAmbient[i]))
 		}
 		res.SummationBefore = max(res.SummationBefore, math.Abs(1-rawSum))
@@ -115,4 +102,20 @@ func unionLen(a, b []int32) int {
 		n++
 	}
 	return n + len(a) - x + len(b) - y
+}
+
+// moved is how far a factor moved from its raw estimate rawF (of rays
+// rays) to newF, in standard errors of the raw estimate.
+func moved(rawF, newF float64, rays int64) float64 {
+	se := func(f float64) float64 { return math.Sqrt(f * (1 - f) / float64(rays)) }
+	s := se(rawF)
+	if s == 0 {
+		if rawF == newF {
+			return 0
+		}
+		// A factor estimated as 0 or 1 has a zero binomial error; use the
+		// error of one count instead.
+		s = se(1 / float64(rays))
+	}
+	return (newF - rawF) / s
 }

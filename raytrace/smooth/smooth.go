@@ -26,11 +26,8 @@ type Counts struct {
 
 // Result is a smoothed matrix and its diagnostics.
 type Result struct {
-	F []FactorRow // per row, columns increasing, zero pairs omitted
-	// Moved[i][k] is how far F[i].Val[k] moved from the raw estimate, in
-	// standard errors of the raw estimate.
-	Moved   [][]float64
-	Ambient []float64 // F_i,amb
+	F       []FactorRow // per row, columns increasing, zero pairs omitted
+	Ambient []float64   // F_i,amb
 	// MovedAmbient is how far F_i,amb moved, in standard errors.
 	MovedAmbient []float64
 	// Reciprocity is max |A_i F_ij − A_j F_ji| / max A_i F_ij; Summation is
@@ -39,7 +36,28 @@ type Result struct {
 	SummationBefore, SummationAfter     float64
 	MaxMoved                            float64 // largest |moved| over all entries
 	Iterations                          int
+
+	// The counts, for Moved.
+	hits []CountRow
+	rays []int64
 }
+
+// Moved returns how far F[i].Val[k] moved from the raw estimate, in
+// standard errors of the raw estimate; NaN after ForgetCounts. It is
+// computed from the counts when asked: stored, it would be another 8
+// bytes an entry (of 20) in every smoothing, replicates' included, that
+// only the pairs file reads.
+func (r *Result) Moved(i, k int) float64 {
+	if r.hits == nil {
+		return math.NaN()
+	}
+	rays := r.rays[i]
+	return moved(float64(r.hits[i].At(r.F[i].Col[k]))/float64(rays), r.F[i].Val[k], rays)
+}
+
+// ForgetCounts makes Moved NaN, for a matrix whose counts encode given
+// factors and carry no standard error.
+func (r *Result) ForgetCounts() { r.hits, r.rays = nil, nil }
 
 // NodeError is a problem with the counts of one node (Node is its index).
 type NodeError struct {

@@ -322,10 +322,10 @@ func TestDiagnosticsRecomputed(t *testing.T) {
 			for k, j := range r.F[i].Col {
 				rf := raw(i, int(j))
 				se := math.Sqrt(rf * (1 - rf) / float64(c.Rays[i]))
-				if want := (r.F[i].Val[k] - rf) / se; math.Abs(r.Moved[i][k]-want) > 1e-12*math.Abs(want) {
-					t.Errorf("seed %d: moved[%d][%d] = %v, want %v", seed, i, j, r.Moved[i][k], want)
+				if want := (r.F[i].Val[k] - rf) / se; math.Abs(r.Moved(i, k)-want) > 1e-12*math.Abs(want) {
+					t.Errorf("seed %d: moved[%d][%d] = %v, want %v", seed, i, j, r.Moved(i, k), want)
 				}
-				moved = max(moved, math.Abs(r.Moved[i][k]))
+				moved = max(moved, math.Abs(r.Moved(i, k)))
 			}
 			moved = max(moved, math.Abs(r.MovedAmbient[i]))
 		}

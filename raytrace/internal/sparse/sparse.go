@@ -47,8 +47,19 @@ func FromTriplets(n int, rows, cols []int32, vals []float64) *CSR {
 	out := 0
 	for r := range n {
 		lo, hi := c.Start[r], c.Start[r+1]
-		if !slices.IsSorted(col[lo:hi]) { // assembled in order, as a rule
-			sort.Sort(rowSegment{col[lo:hi], val[lo:hi]})
+		seg := col[lo:hi]
+		switch {
+		case slices.IsSorted(seg):
+		case slices.IsSorted(seg[1:]):
+			// In order but for the first entry (a diagonal assembled
+			// before its row, as a rule): move it to its place.
+			c0, v0 := seg[0], val[lo]
+			p, _ := slices.BinarySearch(seg[1:], c0)
+			copy(seg[:p], seg[1:p+1])
+			copy(val[lo:lo+p], val[lo+1:lo+p+1])
+			seg[p], val[lo+p] = c0, v0
+		default:
+			sort.Sort(rowSegment{seg, val[lo:hi]})
 		}
 		c.Start[r] = out
 		for k := lo; k < hi; k++ {

@@ -108,15 +108,26 @@ func TestSymmetricCases(t *testing.T) {
 
 // Triplets in row order (taken over in place) and the same triplets
 // shuffled (counting-sorted into new arrays), duplicates included, give
-// the same matrix, duplicates summed.
+// the same matrix, duplicates summed. Rows 0 … n−1 have random columns;
+// rows n … 2n−1 are assembled as the exchange solver does, the diagonal
+// first and then increasing columns, the diagonal's among them now and
+// then.
 func TestFromTripletsInPlaceAndSorted(t *testing.T) {
 	rng := rand.New(rand.NewPCG(11, 11))
-	const n = 30
+	const n, size = 30, 60
 	var rows, cols []int32
 	var vals []float64
 	for i := range int32(n) {
 		for range 1 + rng.IntN(6) {
-			rows, cols, vals = append(rows, i), append(cols, int32(rng.IntN(n))), append(vals, float64(rng.IntN(100)))
+			rows, cols, vals = append(rows, i), append(cols, int32(rng.IntN(size))), append(vals, float64(rng.IntN(100)))
+		}
+	}
+	for i := int32(n); i < size; i++ {
+		rows, cols, vals = append(rows, i), append(cols, i), append(vals, 1000)
+		for j := range int32(size) {
+			if rng.IntN(3) == 0 || j == i && rng.IntN(2) == 0 {
+				rows, cols, vals = append(rows, i), append(cols, j), append(vals, float64(rng.IntN(100)))
+			}
 		}
 	}
 	shuffled := rng.Perm(len(rows))
@@ -124,19 +135,19 @@ func TestFromTripletsInPlaceAndSorted(t *testing.T) {
 	for k, p := range shuffled {
 		r2[k], c2[k], v2[k] = rows[p], cols[p], vals[p]
 	}
-	dense := make([][]float64, n)
+	dense := make([][]float64, size)
 	for i := range dense {
-		dense[i] = make([]float64, n)
+		dense[i] = make([]float64, size)
 	}
 	for k := range rows {
 		dense[rows[k]][cols[k]] += vals[k]
 	}
-	for _, c := range []*CSR{FromTriplets(n, rows, slices.Clone(cols), slices.Clone(vals)), FromTriplets(n, r2, c2, v2)} {
-		for i := range n {
+	for _, c := range []*CSR{FromTriplets(size, rows, slices.Clone(cols), slices.Clone(vals)), FromTriplets(size, r2, c2, v2)} {
+		for i := range size {
 			if !slices.IsSorted(c.Col[c.Start[i]:c.Start[i+1]]) {
 				t.Fatalf("row %d columns not increasing: %v", i, c.Col[c.Start[i]:c.Start[i+1]])
 			}
-			for j := range n {
+			for j := range size {
 				if c.At(i, j) != dense[i][j] {
 					t.Fatalf("A[%d][%d] = %v, want %v", i, j, c.At(i, j), dense[i][j])
 				}
@@ -145,8 +156,8 @@ func TestFromTripletsInPlaceAndSorted(t *testing.T) {
 				t.Fatalf("diag %d = %v, want %v", i, c.Diag[i], dense[i][i])
 			}
 		}
-		if c.Start[n] != len(c.Col) {
-			t.Fatalf("entries %d, Start[n] %d", len(c.Col), c.Start[n])
+		if c.Start[size] != len(c.Col) {
+			t.Fatalf("entries %d, Start[n] %d", len(c.Col), c.Start[size])
 		}
 	}
 }
