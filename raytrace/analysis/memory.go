@@ -10,12 +10,12 @@ import (
 
 // bytesPerEntry is what the analysis holds per entry of a matrix it is
 // smoothing and solving (the counts' transpose, the pairs and Hessian
-// weights, the smoothed matrix and its moves, the solver's system),
-// measured on the 10⁴-node sphere at 10⁴ rays per node (go run ./bench
-// -scale -scale-rays 10000): a peak of 9.9 GB of heap with 6.3·10⁷ pooled
-// entries and a replicate of 2.2·10⁷ in work beside it on 2 cores, 1.8 GB
-// of it the tallies, is about 95 bytes an entry; 120 leaves room for the
-// garbage collector's lag.
+// weights, the smoothed matrix, the solver's system), measured on the
+// 10⁴-node sphere at 10⁴ rays per node (go run ./bench -scale
+// -scale-rays 10000): a peak of 8.4 GB of heap with 6.3·10⁷ pooled entries
+// and a replicate of 2.2·10⁷ in work beside it on 2 cores, 1.8 GB of it
+// the tallies, is about 80 bytes an entry (95 before the smoothing stopped
+// storing its moves); 120 leaves room for the garbage collector's lag.
 const bytesPerEntry = 120
 
 // AnalysisBytes estimates the memory Analyse needs for res beyond what
