@@ -3,6 +3,7 @@ package report
 import (
 	"fmt"
 	"io"
+	"math"
 	"path/filepath"
 	"runtime"
 	"strconv"
@@ -30,12 +31,18 @@ func writeMTX(path, symmetry, comment string, rows, cols, entries, groups int, g
 			return err
 		}
 		return formatInOrder(w, groups, func(g int, buf []byte) []byte {
+			var memo floatMemo
+			var prefix []byte // "i " of the row being written
+			last := -1
 			group(g, func(i, j int, v float64) {
-				buf = strconv.AppendInt(buf, int64(i+1), 10)
-				buf = append(buf, ' ')
+				if i != last {
+					prefix = append(strconv.AppendInt(prefix[:0], int64(i+1), 10), ' ')
+					last = i
+				}
+				buf = append(buf, prefix...)
 				buf = strconv.AppendInt(buf, int64(j+1), 10)
 				buf = append(buf, ' ')
-				buf = strconv.AppendFloat(buf, v, 'g', -1, 64)
+				buf = memo.append(buf, v)
 				buf = append(buf, '\n')
 			})
 			return buf
@@ -43,10 +50,34 @@ func writeMTX(path, symmetry, comment string, rows, cols, entries, groups int, g
 	})
 }
 
+// floatMemo remembers the text of recently formatted numbers: a row of raw
+// factors k/N repeats a few values (k = 1, 2, 3 … of a node's N rays)
+// thousands of times, and copying their text is far cheaper than
+// formatting it again. The text is strconv's shortest round-trip form
+// either way.
+type floatMemo struct {
+	slot [64]struct {
+		bits uint64
+		n    uint8
+		text [24]byte // the longest shortest form of a float64 is 24 bytes
+	}
+}
+
+func (m *floatMemo) append(buf []byte, v float64) []byte {
+	bits := math.Float64bits(v)
+	e := &m.slot[(bits*0x9e3779b97f4a7c15)>>58]
+	if e.n > 0 && e.bits == bits {
+		return append(buf, e.text[:e.n]...)
+	}
+	at := len(buf)
+	buf = strconv.AppendFloat(buf, v, 'g', -1, 64)
+	e.bits, e.n = bits, uint8(copy(e.text[:], buf[at:]))
+	return buf
+}
+
 // formatInOrder writes the text of groups 0 … n−1 to w in that order,
-// formatting them on every core: number formatting, not the disk, bounds
-// the writing of a large matrix (about 100 ns a number against 1 ns a byte
-// written). Groups are formatted a window at a time, so memory stays at a
+// formatting them on every core: number formatting (about 100 ns a
+// number) is most of the writing of a large matrix. Groups are formatted a window at a time, so memory stays at a
 // few windows of text whatever the file's size, and the bytes do not
 // depend on the cores.
 func formatInOrder(w io.Writer, n int, format func(g int, buf []byte) []byte) error {
