@@ -71,21 +71,26 @@ func (e *NodeError) Error() string { return fmt.Sprintf("smooth: node %d: %s", e
 var ErrNotConverged = errors.New("smooth: Newton iteration did not converge (with few rays per node among many nodes, the pairs seen may admit no reciprocal matrix whose rows sum to 1: trace more rays per node, or make fewer, larger nodes)")
 
 // pairs are the unordered node pairs i < j seen, with their pooled counts,
-// as parallel arrays: the Hessian products stream only what they read.
+// by rows as a sparse matrix is: pairs start[i] … start[i+1]−1 are node
+// i's, with partners j and counts c in parallel arrays, so the loops
+// stream only what they read and keep node i's sums in a register. Every
+// sum still takes its terms in (i, j) order, bit for bit as a flat list
+// of pairs would.
 type pairs struct {
-	i, j []int32
-	c    []float64
+	start []int
+	j     []int32
+	c     []float64
 	// w[p] = c/(λ_i+λ_j)², the Hessian's entry, refreshed once per Newton
 	// step: the conjugate-gradient passes of a step then do no division.
 	w []float64
 }
 
-func newPairs(capacity int) pairs {
-	return pairs{i: make([]int32, 0, capacity), j: make([]int32, 0, capacity), c: make([]float64, 0, capacity)}
+func newPairs(nodes, capacity int) pairs {
+	return pairs{start: make([]int, nodes+1), j: make([]int32, 0, capacity), c: make([]float64, 0, capacity)}
 }
 
-func (ps *pairs) add(i, j int32, c float64) {
-	ps.i, ps.j, ps.c = append(ps.i, i), append(ps.j, j), append(ps.c, c)
+func (ps *pairs) add(j int32, c float64) {
+	ps.j, ps.c = append(ps.j, j), append(ps.c, c)
 }
 
 // Smooth returns the constrained maximum-likelihood matrix for the counts.
@@ -129,19 +134,21 @@ func Smooth(in Counts) (*Result, error) {
 	// Every pair seen has a count in at least one direction, so there are
 	// at most as many pairs as entries: one allocation instead of a slice
 	// that doubles (10⁷ pairs and more at 10⁴ nodes).
-	offd := newPairs(entries)
+	offd := newPairs(n, entries)
 	diagC := make([]float64, n) // k_ii + k_i,amb
 	for i := range n {
 		diagC[i] = amb(i)
+		offd.start[i] = len(offd.j)
 		mergeRows(&in.Hits[i], &tr[i], func(j int32, kij, kji int64) {
 			switch {
 			case int(j) == i:
 				diagC[i] += float64(kij)
 			case int(j) > i:
-				offd.add(int32(i), j, float64(kij+kji))
+				offd.add(j, float64(kij+kji))
 			}
 		})
 	}
+	offd.start[n] = len(offd.j)
 	lam := make([]float64, n)
 	for i := range n {
 		lam[i] = float64(in.Rays[i]) / in.Area[i]
@@ -190,13 +197,15 @@ func dual(lam, area []float64, offd *pairs, diagC []float64) float64 {
 			d -= diagC[i] * math.Log(l)
 		}
 	}
-	js, cs := offd.j[:len(offd.i)], offd.c[:len(offd.i)]
-	for p, i := range offd.i {
-		s := lam[i] + lam[js[p]]
-		if !(s > 0) {
-			return math.Inf(1)
+	js, cs := offd.j, offd.c[:len(offd.j)]
+	for i, li := range lam {
+		for p := offd.start[i]; p < offd.start[i+1]; p++ {
+			s := li + lam[js[p]]
+			if !(s > 0) {
+				return math.Inf(1)
+			}
+			d -= cs[p] * math.Log(s)
 		}
-		d -= cs[p] * math.Log(s)
 	}
 	return d
 }
@@ -210,14 +219,18 @@ func gradient(g, lam, area []float64, offd *pairs, diagC []float64) (float64, bo
 		g[i] = area[i] - diagC[i]/lam[i]
 		in = in && (diagC[i] == 0 || lam[i] > 0)
 	}
-	js, cs := offd.j[:len(offd.i)], offd.c[:len(offd.i)]
-	for p, i := range offd.i {
-		j := js[p]
-		sum := lam[i] + lam[j]
-		in = in && sum > 0
-		s := cs[p] / sum
-		g[i] -= s
-		g[j] -= s
+	js, cs := offd.j, offd.c[:len(offd.j)]
+	for i, li := range lam {
+		gi := g[i]
+		for p := offd.start[i]; p < offd.start[i+1]; p++ {
+			j := js[p]
+			sum := li + lam[j]
+			in = in && sum > 0
+			s := cs[p] / sum
+			gi -= s
+			g[j] -= s
+		}
+		g[i] = gi
 	}
 	r := 0.0
 	for i := range g {
@@ -232,14 +245,18 @@ func weigh(diag, lam []float64, offd *pairs, diagC []float64) {
 	for i := range diag {
 		diag[i] = diagC[i] / (lam[i] * lam[i])
 	}
-	js, cs, ws := offd.j[:len(offd.i)], offd.c[:len(offd.i)], offd.w[:len(offd.i)]
-	for p, i := range offd.i {
-		j := js[p]
-		s := lam[i] + lam[j]
-		w := cs[p] / (s * s)
-		ws[p] = w
-		diag[i] += w
-		diag[j] += w
+	js, cs, ws := offd.j, offd.c[:len(offd.j)], offd.w[:len(offd.j)]
+	for i, li := range lam {
+		di := diag[i]
+		for p := offd.start[i]; p < offd.start[i+1]; p++ {
+			j := js[p]
+			s := li + lam[j]
+			w := cs[p] / (s * s)
+			ws[p] = w
+			di += w
+			diag[j] += w
+		}
+		diag[i] = di
 	}
 }
 
@@ -249,12 +266,16 @@ func hessMul(y, x, lam []float64, offd *pairs, diagC []float64) {
 	for i := range y {
 		y[i] = diagC[i] / (lam[i] * lam[i]) * x[i]
 	}
-	js, ws := offd.j[:len(offd.i)], offd.w[:len(offd.i)]
-	for p, i := range offd.i {
-		j := js[p]
-		s := ws[p] * (x[i] + x[j])
-		y[i] += s
-		y[j] += s
+	js, ws := offd.j, offd.w[:len(offd.j)]
+	for i, xi := range x {
+		yi := y[i]
+		for p := offd.start[i]; p < offd.start[i+1]; p++ {
+			j := js[p]
+			s := ws[p] * (xi + x[j])
+			yi += s
+			y[j] += s
+		}
+		y[i] = yi
 	}
 }
 
@@ -266,7 +287,7 @@ const (
 // newton minimises D over λ in place and returns the iterations used.
 func newton(lam, area []float64, offd *pairs, diagC []float64) (int, error) {
 	n := len(lam)
-	offd.w = make([]float64, len(offd.i))
+	offd.w = make([]float64, len(offd.j))
 	g, step, trial, gt := make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
 	gnorm, _ := gradient(g, lam, area, offd, diagC)
 	// D at λ, computed only when the line search needs it: a step that
