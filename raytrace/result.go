@@ -140,7 +140,12 @@ func (r *Result) replicated(i, j int, f Factor) Factor {
 	if !r.spreadApplies(i) || f.Hits == 0 {
 		return f
 	}
-	ks := make([]int64, len(r.Replicas))
+	var small [16]int64 // no allocation per lookup for up to 16 replicates
+	ks := small[:0]
+	if len(r.Replicas) > len(small) {
+		ks = make([]int64, 0, len(r.Replicas))
+	}
+	ks = ks[:len(r.Replicas)]
 	for q := range r.Replicas {
 		t := &r.Replicas[q]
 		ks[q] = t.Escaped[i]
