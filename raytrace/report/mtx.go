@@ -77,14 +77,17 @@ func (m *floatMemo) append(buf []byte, v float64) []byte {
 
 // formatInOrder writes the text of groups 0 … n−1 to w in that order,
 // formatting them on every core: number formatting (about 100 ns a
-// number) is most of the writing of a large matrix. Groups are formatted a window at a time, so memory stays at a
-// few windows of text whatever the file's size, and the bytes do not
-// depend on the cores.
+// number) is most of the writing of a large matrix. Groups are formatted a
+// window at a time, so memory stays at a window of text whatever the
+// file's size, and the bytes do not depend on the cores.
 func formatInOrder(w io.Writer, n int, format func(g int, buf []byte) []byte) error {
-	const perChunk = 256 // groups (rows) per chunk of text
+	// 64 rows a chunk and at most 8 chunks a window: a dense row of 10⁴
+	// entries is about 200 kB of text, so a window stays near 100 MB on any
+	// number of cores.
+	const perChunk = 64
 	workers := runtime.GOMAXPROCS(0)
 	chunks := (n + perChunk - 1) / perChunk
-	bufs := make([][]byte, 2*workers)
+	bufs := make([][]byte, min(2*workers, 8))
 	for lo := 0; lo < chunks; lo += len(bufs) {
 		hi := min(lo+len(bufs), chunks)
 		var wg sync.WaitGroup

@@ -20,7 +20,7 @@ func TestMTXFormattedInOrder(t *testing.T) {
 	entry := func(i, k int) (int, float64) { return (i*7 + k*13) % 5000, float64(i%3+k%2+1) / float64(i+3) }
 	for _, procs := range []int{1, 2, 3} {
 		old := runtime.GOMAXPROCS(procs)
-		for _, rows := range []int{0, 1, 255, 256, 257, 1500, 5000} {
+		for _, rows := range []int{0, 1, 63, 64, 65, 255, 256, 257, 511, 512, 513, 1500, 5000} {
 			var want bytes.Buffer
 			fmt.Fprintf(&want, "%%%%MatrixMarket matrix coordinate real general\n%% test\n%d %d %d\n", rows, 5000, 0)
 			for i := range rows {
