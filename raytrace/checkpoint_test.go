@@ -215,3 +215,26 @@ func TestCheckRefusesForgedTallies(t *testing.T) {
 		}
 	}
 }
+
+// A checkpoint waits, after the last one ended, checkpointGap times as
+// long as that one took: writing stays near 1/20 of a run however large
+// the tally file grows.
+func TestCheckpointDue(t *testing.T) {
+	t0 := time.Date(2026, 1, 1, 0, 0, 0, 0, time.UTC)
+	for _, tc := range []struct {
+		name  string
+		since time.Duration // from the end of the last write to the tick
+		took  time.Duration
+		due   bool
+	}{
+		{"first checkpoint", time.Minute, 0, true},
+		{"a quick write, a minute ago", time.Minute, 100 * time.Millisecond, true},
+		{"a 10 s write, a minute ago", time.Minute, 10 * time.Second, false},
+		{"a 10 s write, 189 s ago", 189 * time.Second, 10 * time.Second, false},
+		{"a 10 s write, 190 s ago", 190 * time.Second, 10 * time.Second, true},
+	} {
+		if got := checkpointDue(t0.Add(tc.since), t0, tc.took); got != tc.due {
+			t.Errorf("%s: due %v, want %v", tc.name, got, tc.due)
+		}
+	}
+}
