@@ -22,8 +22,10 @@
 // Σ_k Q_k = Q_group, which keeps the matrix symmetric.
 //
 // Up to DenseLimit unknowns the system is solved by LU factorisation
-// (gonum); beyond, by preconditioned conjugate gradients on the sparse
-// matrix (Gauss–Seidel if it is not symmetric), so facet-level models solve.
+// (gonum); beyond, by preconditioned conjugate gradients (Gauss–Seidel if
+// the matrix is not symmetric), so facet-level models solve. The iterative
+// methods apply the view-factor terms from F's own rows: no copy of F, which
+// at 10⁴ nodes can hold 10⁸ entries, is made for a solve.
 //
 // # Exchange factors
 //

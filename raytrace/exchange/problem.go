@@ -74,6 +74,7 @@ type Solution struct {
 	// Σ_k Q_k + Absorbed = ToAmbient.
 	Absorbed float64
 	Dense    bool // solved by LU rather than iteratively
+	method   string
 }
 
 // Flux returns the net outgoing flux of node k in W/m².

@@ -3,10 +3,7 @@ package exchange
 import (
 	"errors"
 	"fmt"
-	"github.com/hemiray/hemiray/raytrace/internal/sparse"
 	"math"
-
-	"gonum.org/v1/gonum/mat"
 )
 
 // DenseLimit is the number of unknowns up to which Solve factorises a dense
@@ -18,19 +15,6 @@ var denseLimit = DenseLimit
 
 // ErrNotConverged is returned when the iterative solver misses its tolerance.
 var ErrNotConverged = errors.New("exchange: iterative solver did not converge")
-
-// system is the assembled linear system in sparse triplet form.
-type system struct {
-	n    int
-	rows []int32
-	cols []int32
-	vals []float64
-	rhs  []float64
-}
-
-func (s *system) add(r, c int, v float64) {
-	s.rows, s.cols, s.vals = append(s.rows, int32(r)), append(s.cols, int32(c)), append(s.vals, v)
-}
 
 // Solve solves the enclosure.
 func Solve(p Problem) (*Solution, error) {
@@ -88,20 +72,16 @@ func Solve(p Problem) (*Solution, error) {
 			nv++
 		}
 	}
-	s := &system{n: nv, rhs: make([]float64, nv)}
-	entries := nv // the diagonal, and one per stored view factor
-	for k := range p.F {
-		entries += p.F[k].Len()
-	}
-	s.rows, s.cols, s.vals = make([]int32, 0, entries), make([]int32, 0, entries), make([]float64, 0, entries)
-	// irradiation adds row r's terms −a·Σ_j F_kj J_j + (RHS) a·F_amb·σT_amb⁴.
-	irradiation := func(r, k int, a float64) {
+	s := &system{n: nv, rhs: make([]float64, nv), f: p.F, scale: make([]float64, n), v: varJ}
+	// irradiation puts node k's view-factor terms −a·Σ_j F_kj J_j in row
+	// varJ[k] (read from F itself, see system) and moves those of known
+	// radiosities, with a·F_amb·σT_amb⁴, to the right-hand side.
+	irradiation := func(k int, a float64) {
+		r := varJ[k]
+		s.scale[k] = a
 		for i, j := range p.F[k].Col {
-			f := p.F[k].Val[i]
-			if v := varJ[j]; v >= 0 {
-				s.add(r, v, -a*f)
-			} else {
-				s.rhs[r] += a * f * knownJ[j]
+			if varJ[j] < 0 {
+				s.rhs[r] += a * p.F[k].Val[i] * knownJ[j]
 			}
 		}
 		s.rhs[r] += a * fAmb(k) * ambE
@@ -121,7 +101,7 @@ func Solve(p Problem) (*Solution, error) {
 		case c.Kind == Temperature && g < 0 || c.Kind == Temperature && varE[g] < 0:
 			r := varJ[k]
 			s.add(r, r, a/rho)
-			irradiation(r, k, a)
+			irradiation(k, a)
 			s.rhs[r] += a * eps / rho * eb(c.Value)
 		case g >= 0 && eps < 1:
 			// Gray member of a shared-temperature group:
@@ -131,7 +111,7 @@ func Solve(p Problem) (*Solution, error) {
 			w := a * eps / rho
 			s.add(r, r, a/rho)
 			s.add(r, e, -w)
-			irradiation(r, k, a)
+			irradiation(k, a)
 			s.add(e, e, w)
 			s.add(e, r, -w)
 		case g >= 0:
@@ -139,12 +119,12 @@ func Solve(p Problem) (*Solution, error) {
 			// joins the group row.
 			e := varE[g]
 			s.add(e, e, a)
-			irradiation(e, k, a)
+			irradiation(k, a)
 		default:
 			// Fixed flux, flow or adiabatic.
 			r := varJ[k]
 			s.add(r, r, a)
-			irradiation(r, k, a)
+			irradiation(k, a)
 			switch c.Kind {
 			case HeatFlux:
 				s.rhs[r] += c.Value * a
@@ -153,12 +133,12 @@ func Solve(p Problem) (*Solution, error) {
 			}
 		}
 	}
-	x, dense, err := s.solve()
+	x, method, err := s.solve()
 	if err != nil {
 		return nil, err
 	}
 
-	sol := &Solution{T: make([]float64, n), J: make([]float64, n), Q: make([]float64, n), q: make([]float64, n), Dense: dense}
+	sol := &Solution{T: make([]float64, n), J: make([]float64, n), Q: make([]float64, n), q: make([]float64, n), Dense: method == byLU, method: method}
 	for k := range n {
 		if v := varJ[k]; v >= 0 {
 			sol.J[k] = x[v]
@@ -199,69 +179,4 @@ func Solve(p Problem) (*Solution, error) {
 		sol.Imbalance = math.Abs(sum-sol.ToAmbient) / qmax
 	}
 	return sol, nil
-}
-
-// solve solves the assembled system densely (LU) when small, else by
-// conjugate gradients when symmetric and Gauss–Seidel otherwise.
-func (s *system) solve() ([]float64, bool, error) {
-	if s.n == 0 {
-		return nil, true, nil
-	}
-	if s.n <= denseLimit {
-		m := mat.NewDense(s.n, s.n, nil)
-		for k := range s.rows {
-			r, c := int(s.rows[k]), int(s.cols[k])
-			m.Set(r, c, m.At(r, c)+s.vals[k])
-		}
-		var lu mat.LU
-		lu.Factorize(m)
-		if c := lu.Cond(); c > 1e14 || math.IsInf(c, 0) {
-			return nil, true, fmt.Errorf("exchange: the system is singular (condition number %.3g): %w", c, ErrNoTemperature)
-		}
-		var x mat.VecDense
-		if err := lu.SolveVecTo(&x, false, mat.NewVecDense(s.n, s.rhs)); err != nil {
-			return nil, true, fmt.Errorf("exchange: %w", err)
-		}
-		return x.RawVector().Data, true, nil
-	}
-	c := sparse.FromTriplets(s.n, s.rows, s.cols, s.vals)
-	if c.Symmetric() {
-		x := make([]float64, s.n)
-		if !sparse.CG(c.Mul, c.Diag, s.rhs, x, iterTol, 20*s.n+1000) {
-			return nil, false, ErrNotConverged
-		}
-		return x, false, nil
-	}
-	x, err := gaussSeidel(c, s.rhs)
-	return x, false, err
-}
-
-const iterTol = 1e-12
-
-// gaussSeidel solves c·x = b for a diagonally dominant c.
-func gaussSeidel(c *sparse.CSR, b []float64) ([]float64, error) {
-	x := make([]float64, c.N)
-	bn := math.Sqrt(sparse.Dot(b, b))
-	res := make([]float64, c.N)
-	for it := 0; it < 100000; it++ {
-		for r := range c.N {
-			s := b[r]
-			for k := c.Start[r]; k < c.Start[r+1]; k++ {
-				if int(c.Col[k]) != r {
-					s -= c.Val[k] * x[c.Col[k]]
-				}
-			}
-			x[r] = s / c.Diag[r]
-		}
-		if it%10 == 9 {
-			c.Mul(res, x)
-			for i := range res {
-				res[i] -= b[i]
-			}
-			if math.Sqrt(sparse.Dot(res, res)) <= iterTol*bn {
-				return x, nil
-			}
-		}
-	}
-	return nil, ErrNotConverged
 }
