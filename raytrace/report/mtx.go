@@ -25,7 +25,7 @@ import (
 // a facet-level model's file grows with the pairs seen, not with N².
 
 func writeMTX(path, symmetry, comment string, rows, cols, entries, groups int, group func(g int, put func(i, j int, v float64))) error {
-	return atomicfile.Write(path, func(w io.Writer) error {
+	return atomicfile.WriteLarge(path, func(w io.Writer) error {
 		head := fmt.Appendf(nil, "%%%%MatrixMarket matrix coordinate real %s\n%% %s\n%d %d %d\n", symmetry, comment, rows, cols, entries)
 		if _, err := w.Write(head); err != nil {
 			return err
@@ -78,8 +78,10 @@ func (m *floatMemo) append(buf []byte, v float64) []byte {
 // formatInOrder writes the text of groups 0 … n−1 to w in that order,
 // formatting them on every core: number formatting (about 100 ns a
 // number) is most of the writing of a large matrix. Groups are formatted a
-// window at a time, so memory stays at a window of text whatever the
-// file's size, and the bytes do not depend on the cores.
+// window at a time, and one window is written while the next is
+// formatted (a direct write waits for the disk), so memory stays at two
+// windows of text whatever the file's size; the bytes do not depend on
+// the cores.
 func formatInOrder(w io.Writer, n int, format func(g int, buf []byte) []byte) error {
 	// 64 rows a chunk and at most 8 chunks a window: a dense row of 10⁴
 	// entries is about 200 kB of text, so a window stays near 100 MB on any
@@ -87,16 +89,22 @@ func formatInOrder(w io.Writer, n int, format func(g int, buf []byte) []byte) er
 	const perChunk = 64
 	workers := runtime.GOMAXPROCS(0)
 	chunks := (n + perChunk - 1) / perChunk
-	bufs := make([][]byte, min(2*workers, 8))
-	for lo := 0; lo < chunks; lo += len(bufs) {
-		hi := min(lo+len(bufs), chunks)
+	perWindow := min(2*workers, 8)
+	var sets [2][][]byte
+	written := make(chan error, 1)
+	written <- nil
+	for lo, set := 0, 0; lo < chunks; lo, set = lo+perWindow, 1-set {
+		hi := min(lo+perWindow, chunks)
+		bufs := sets[set]
+		if bufs == nil {
+			bufs = make([][]byte, perWindow)
+			sets[set] = bufs
+		}
 		var wg sync.WaitGroup
 		next := atomic.Int64{}
 		next.Store(int64(lo))
 		for range min(workers, hi-lo) {
-			wg.Add(1)
-			go func() {
-				defer wg.Done()
+			wg.Go(func() {
 				for c := int(next.Add(1) - 1); c < hi; c = int(next.Add(1) - 1) {
 					buf := bufs[c-lo][:0]
 					for g := c * perChunk; g < min(n, (c+1)*perChunk); g++ {
@@ -104,16 +112,25 @@ func formatInOrder(w io.Writer, n int, format func(g int, buf []byte) []byte) er
 					}
 					bufs[c-lo] = buf
 				}
-			}()
+			})
 		}
 		wg.Wait()
-		for c := lo; c < hi; c++ {
-			if _, err := w.Write(bufs[c-lo]); err != nil {
-				return err
-			}
+		// The previous window is written by now or soon; this one follows
+		// it while the next is formatted into the other set.
+		if err := <-written; err != nil {
+			return err
 		}
+		go func() {
+			for _, b := range bufs[:hi-lo] {
+				if _, err := w.Write(b); err != nil {
+					written <- err
+					return
+				}
+			}
+			written <- nil
+		}()
 	}
-	return nil
+	return <-written
 }
 
 // writeRawMTX writes viewfactors.mtx (absorption.mtx for absorption

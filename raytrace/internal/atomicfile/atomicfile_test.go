@@ -1,13 +1,16 @@
 package atomicfile
 
 import (
+	"bytes"
 	"errors"
+	"fmt"
 	"io"
 	"os"
 	"path/filepath"
 	"strings"
 	"syscall"
 	"testing"
+	"unsafe"
 )
 
 // A failed write leaves neither the target nor a temporary file, and a
@@ -68,5 +71,63 @@ func TestLock(t *testing.T) {
 		if _, err := Lock(ro); err == nil {
 			t.Error("an unwritable folder was locked")
 		}
+	}
+}
+
+// WriteLarge gives the same bytes as Write at every size around its block
+// and buffer boundaries, and so does a direct writer whose buffer is not
+// aligned, which the kernel refuses (EINVAL) and the writer then falls
+// back from.
+func TestWriteLarge(t *testing.T) {
+	dir := t.TempDir()
+	for _, n := range []int{0, 1, 4095, 4096, 4097, 4<<20 - 1, 4 << 20, 4<<20 + 1, 9<<20 + 123} {
+		want := make([]byte, n)
+		for i := range want {
+			want[i] = byte(i*7 + i>>12)
+		}
+		p := filepath.Join(dir, fmt.Sprintf("f%d", n))
+		// Pieces of odd sizes, as formatted text comes.
+		err := WriteLarge(p, func(w io.Writer) error {
+			for at := 0; at < n; {
+				k := min(n-at, 1+(at*31)%100003)
+				if _, err := w.Write(want[at : at+k]); err != nil {
+					return err
+				}
+				at += k
+			}
+			return nil
+		})
+		if err != nil {
+			t.Fatalf("%d bytes: %v", n, err)
+		}
+		if got, _ := os.ReadFile(p); !bytes.Equal(got, want) {
+			t.Fatalf("%d bytes: read back %d bytes, different", n, len(got))
+		}
+	}
+	if directFlag == 0 {
+		return
+	}
+	p := filepath.Join(dir, "misaligned")
+	f, err := os.OpenFile(p, os.O_RDWR|os.O_CREATE|directFlag, 0o666)
+	if err != nil {
+		t.Skipf("no direct writes here: %v", err)
+	}
+	defer f.Close()
+	d := newDirectWriter(f)
+	raw := make([]byte, cap(d.buf)+directBlock+1)
+	off := int((directBlock-uintptr(unsafe.Pointer(&raw[0]))%directBlock)%directBlock) + 1
+	d.buf = raw[off : off : off+cap(d.buf)]
+	want := bytes.Repeat([]byte("0123456789abcdef"), 600000) // 9.6 MB
+	if _, err := d.Write(want); err != nil {
+		t.Fatal(err)
+	}
+	if err := d.finish(); err != nil {
+		t.Fatal(err)
+	}
+	if d.direct {
+		t.Log("an unaligned direct write was accepted here")
+	}
+	if got, _ := os.ReadFile(p); !bytes.Equal(got, want) {
+		t.Fatalf("misaligned: read back %d bytes, different", len(got))
 	}
 }
