@@ -96,7 +96,7 @@ func WriteTallies(dir string, ck *raytrace.Checkpoint, r *Record) error {
 	if err != nil {
 		return err
 	}
-	return atomicfile.Write(filepath.Join(dir, TallyFile), func(w io.Writer) error {
+	return atomicfile.WriteLarge(filepath.Join(dir, TallyFile), func(w io.Writer) error {
 		return raytrace.WriteTallyFile(w, ck, mb)
 	})
 }

@@ -59,7 +59,7 @@ func writeSmoothed(dir string, a *analysis.Result, pairs bool) ([]string, error)
 	if !pairs {
 		return written, nil
 	}
-	err := atomicfile.Write(filepath.Join(dir, nm.stem+"_smoothed_pairs.csv"), func(w io.Writer) error {
+	err := atomicfile.WriteLarge(filepath.Join(dir, nm.stem+"_smoothed_pairs.csv"), func(w io.Writer) error {
 		lw := newLineWriter(w)
 		lw.buf = append(lw.buf, "from,to,"+nm.symbol+"_raw,"+nm.symbol+"_smoothed,moved_stderr\n"...)
 		row := func(from, to string, raw, sm, moved float64) error {

@@ -57,7 +57,7 @@ func writeViewFactors(dir string, res *raytrace.Result, pairs bool) ([]string, e
 	if !pairs {
 		return written, nil
 	}
-	err := atomicfile.Write(filepath.Join(dir, nm.stem+"_pairs.csv"), func(w io.Writer) error {
+	err := atomicfile.WriteLarge(filepath.Join(dir, nm.stem+"_pairs.csv"), func(w io.Writer) error {
 		lw := newLineWriter(w)
 		lw.buf = append(lw.buf, "from,to,"+nm.symbol+","+nm.symbol+"_lo,"+nm.symbol+"_hi,stderr,halfwidth,hits,rays\n"...)
 		var werr error
