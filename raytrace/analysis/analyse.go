@@ -22,10 +22,15 @@ type Result struct {
 	Nodes []raytrace.Node
 	// Open says whether the model has an ambient column (rays escape).
 	Open bool
-	// Raw is the matrix before smoothing (F per row, columns increasing)
-	// and RawAmbient its ambient column.
-	Raw        []exchange.Row
+	// RawAmbient is the ambient column of the matrix before smoothing
+	// (RawRow gives its rows).
 	RawAmbient []float64
+	// The matrix before smoothing: given rows, or the counts of a trace,
+	// divided only when a row is asked for (a float copy of the counts
+	// would be another 8 bytes an entry, gigabytes at 10⁴ nodes, that only
+	// the smoothed pairs file reads).
+	rawGiven  []exchange.Row
+	rawCounts *raytrace.Result
 	Smoothed   *smooth.Result
 	Solution   *exchange.Solution
 	Info       []NodeInfo
@@ -102,18 +107,26 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 	if err != nil {
 		return nil, nameNode(err, res.Nodes, res)
 	}
-	a.Raw, a.RawAmbient = make([]exchange.Row, len(res.Nodes)), make([]float64, len(res.Nodes))
+	a.rawCounts, a.RawAmbient = res, make([]float64, len(res.Nodes))
 	for i := range res.Nodes {
-		row := &res.Hits[i]
-		a.Raw[i] = exchange.Row{Col: row.Col, Val: make([]float64, len(row.Col))}
-		for k, n := range row.Val {
-			a.Raw[i].Val[k] = float64(n) / float64(res.Rays[i])
-		}
-		if res.Rays[i] > 0 {
-			a.RawAmbient[i] = float64(res.Escaped[i]) / float64(res.Rays[i])
-		}
+		a.RawAmbient[i] = float64(res.Escaped[i]) / float64(res.Rays[i])
 	}
 	return a, nil
+}
+
+// RawRow returns row i of the matrix before smoothing (columns
+// increasing), its values in scratch when that has room.
+func (a *Result) RawRow(i int, scratch []float64) exchange.Row {
+	if a.rawCounts == nil {
+		return a.rawGiven[i]
+	}
+	row := &a.rawCounts.Hits[i]
+	out := exchange.Row{Col: row.Col, Val: scratch[:0]}
+	rays := float64(a.rawCounts.Rays[i])
+	for _, n := range row.Val {
+		out.Val = append(out.Val, float64(n)/rays)
+	}
+	return out
 }
 
 // smoothTally smooths a tally (pooled or a replicate) for reciprocity with

@@ -218,7 +218,7 @@ func (in *Input) AnalyseFactors(given []Given) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	a.Raw, a.RawAmbient = raw, rawAmb
+	a.rawGiven, a.RawAmbient = raw, rawAmb
 	if s := a.Smoothed.SummationBefore; s > 0.05 {
 		a.Notes = append(a.Notes, fmt.Sprintf("the given view factors' rows sum to 1 only within %.2g: check that every node's row is complete (and the ambient column of an open model)", s))
 	}

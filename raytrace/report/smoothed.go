@@ -74,8 +74,10 @@ func writeSmoothed(dir string, a *analysis.Result, pairs bool) ([]string, error)
 			}
 			return lw.end()
 		}
+		var scratch []float64
 		for i, n := range a.Nodes {
-			raw, sm := &a.Raw[i], &a.Smoothed.F[i]
+			raw, sm := a.RawRow(i, scratch), &a.Smoothed.F[i]
+			scratch = raw.Val
 			k := 0 // both rows have increasing columns: walk them together
 			for m, j := range sm.Col {
 				for k < len(raw.Col) && raw.Col[k] < j {
