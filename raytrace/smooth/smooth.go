@@ -123,32 +123,7 @@ func Smooth(in Counts) (*Result, error) {
 			}
 		}
 	}
-	// Pool the counts of each unordered pair, walking every row with its
-	// transpose: pairs come out in (i, j) order, so every floating-point sum,
-	// and so the result, is the same bit for bit from run to run.
-	tr := sparse.Transpose(in.Hits)
-	entries := 0
-	for i := range n {
-		entries += in.Hits[i].Len()
-	}
-	// Every pair seen has a count in at least one direction, so there are
-	// at most as many pairs as entries: one allocation instead of a slice
-	// that doubles (10⁷ pairs and more at 10⁴ nodes).
-	offd := newPairs(n, entries)
-	diagC := make([]float64, n) // k_ii + k_i,amb
-	for i := range n {
-		diagC[i] = amb(i)
-		offd.start[i] = len(offd.j)
-		mergeRows(&in.Hits[i], &tr[i], func(j int32, kij, kji int64) {
-			switch {
-			case int(j) == i:
-				diagC[i] += float64(kij)
-			case int(j) > i:
-				offd.add(j, float64(kij+kji))
-			}
-		})
-	}
-	offd.start[n] = len(offd.j)
+	offd, diagC := poolPairs(in)
 	lam := make([]float64, n)
 	for i := range n {
 		lam[i] = float64(in.Rays[i]) / in.Area[i]
@@ -157,23 +132,91 @@ func Smooth(in Counts) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	return assemble(in, tr, lam, iters), nil
+	return assemble(in, &offd, lam, iters), nil
 }
 
-// mergeRows calls fn for every column present in row a or b, with the
-// counts of each (0 where absent), columns increasing.
-func mergeRows(a, b *CountRow, fn func(j int32, ka, kb int64)) {
+// poolPairs pools the counts of each unordered pair i < j seen: row i's
+// counts above the diagonal merged with column i's below it (the lower
+// triangle transposed: half of the counts). Pairs come out in (i, j)
+// order, so every floating-point sum, and so the result, is the same bit
+// for bit from run to run. diagC[i] is k_ii + k_i,amb.
+func poolPairs(in Counts) (offd pairs, diagC []float64) {
+	n := len(in.Area)
+	low := transposeLower(in.Hits)
+	entries := 0
+	for i := range n {
+		entries += in.Hits[i].Len()
+	}
+	// Every pair seen has a count in at least one direction, so there are
+	// at most as many pairs as entries: one allocation instead of a slice
+	// that doubles (10⁷ pairs and more at 10⁴ nodes).
+	offd = newPairs(n, entries)
+	diagC = make([]float64, n)
+	for i := range n {
+		if in.Ambient != nil {
+			diagC[i] = float64(in.Ambient[i])
+		}
+		offd.start[i] = len(offd.j)
+		a := &in.Hits[i]
+		x := firstAbove(a, i)
+		if d := diagonalAt(a, i); d >= 0 {
+			diagC[i] += float64(a.Val[d])
+		}
+		mergeCounts(a.Col[x:], a.Val[x:], low.j[low.start[i]:low.start[i+1]], low.k[low.start[i]:low.start[i+1]], func(j int32, kij, kji int64) {
+			offd.add(j, float64(kij+kji))
+		})
+	}
+	offd.start[n] = len(offd.j)
+	return offd, diagC
+}
+
+// lowerCounts is the strictly lower triangle of the counts, transposed:
+// row i holds k_ji of the nodes j > i, j increasing, in arrays shared by
+// all rows (j[start[i]:start[i+1]] and k alike).
+type lowerCounts struct {
+	start []int
+	j     []int32
+	k     []int64
+}
+
+func transposeLower(hits []CountRow) lowerCounts {
+	n := len(hits)
+	t := lowerCounts{start: make([]int, n+1)}
+	for j := range hits {
+		for _, i := range hits[j].Col[:firstAbove(&hits[j], j-1)] {
+			t.start[i+1]++
+		}
+	}
+	for i := range n {
+		t.start[i+1] += t.start[i]
+	}
+	t.j, t.k = make([]int32, t.start[n]), make([]int64, t.start[n])
+	next := append([]int(nil), t.start[:n]...)
+	for j := range hits {
+		r := &hits[j]
+		for m, i := range r.Col[:firstAbove(r, j-1)] {
+			t.j[next[i]], t.k[next[i]] = int32(j), r.Val[m]
+			next[i]++
+		}
+	}
+	return t
+}
+
+// mergeCounts calls fn for every column present in (ca, ka) or (cb, kb),
+// both increasing, with the count of each (0 where absent), columns
+// increasing.
+func mergeCounts(ca []int32, ka []int64, cb []int32, kb []int64, fn func(j int32, a, b int64)) {
 	x, y := 0, 0
-	for x < len(a.Col) || y < len(b.Col) {
+	for x < len(ca) || y < len(cb) {
 		switch {
-		case y == len(b.Col) || (x < len(a.Col) && a.Col[x] < b.Col[y]):
-			fn(a.Col[x], a.Val[x], 0)
+		case y == len(cb) || (x < len(ca) && ca[x] < cb[y]):
+			fn(ca[x], ka[x], 0)
 			x++
-		case x == len(a.Col) || b.Col[y] < a.Col[x]:
-			fn(b.Col[y], 0, b.Val[y])
+		case x == len(ca) || cb[y] < ca[x]:
+			fn(cb[y], 0, kb[y])
 			y++
 		default:
-			fn(a.Col[x], a.Val[x], b.Val[y])
+			fn(ca[x], ka[x], kb[y])
 			x++
 			y++
 		}

@@ -374,3 +374,46 @@ func BenchmarkSmoothClosed(b *testing.B) {
 		}
 	}
 }
+
+// assemble, for any λ, writes every entry of the union of the counts'
+// pattern and its transpose by the definition of the smoothed matrix,
+// F_ij = (k_ij + k_ji)/((λ_i + λ_j)A_i) and F_ii = k_ii/(λ_iA_i), to the
+// bit, with rows increasing; on random sparse counts whose patterns are
+// far from symmetric, with self-counts on some nodes and none on others.
+func TestAssembleByDefinition(t *testing.T) {
+	rng := rand.New(rand.NewPCG(9, 9))
+	for _, n := range []int{1, 2, 7, 60} {
+		c := Counts{Area: make([]float64, n), Rays: make([]int64, n), Hits: make([]CountRow, n), Ambient: make([]int64, n)}
+		k := make([][]int64, n)
+		for i := range n {
+			c.Area[i], c.Rays[i], c.Ambient[i] = 0.3+rng.Float64(), 1000+int64(rng.IntN(500)), int64(rng.IntN(3))
+			k[i] = make([]int64, n)
+			for j := range n {
+				if rng.IntN(3) == 0 && (i != j || i%2 == 0) {
+					k[i][j] = 1 + int64(rng.IntN(40))
+					c.Hits[i].Append(int32(j), k[i][j])
+				}
+			}
+		}
+		lam := make([]float64, n)
+		for i := range lam {
+			lam[i] = 0.5 + 2*rng.Float64()
+		}
+		offd, _ := poolPairs(c)
+		r := assemble(c, &offd, lam, 0)
+		for i := range n {
+			var want FactorRow
+			for j := range n {
+				switch {
+				case j == i && k[i][i] > 0:
+					want.Append(int32(j), float64(k[i][i])/lam[i]/c.Area[i])
+				case j != i && k[i][j]+k[j][i] > 0:
+					want.Append(int32(j), float64(k[i][j]+k[j][i])/(lam[i]+lam[j])/c.Area[i])
+				}
+			}
+			if !slices.Equal(r.F[i].Col, want.Col) || !slices.Equal(r.F[i].Val, want.Val) {
+				t.Fatalf("%d nodes, row %d:\n got %v %v\nwant %v %v", n, i, r.F[i].Col, r.F[i].Val, want.Col, want.Val)
+			}
+		}
+	}
+}
