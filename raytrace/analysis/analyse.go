@@ -31,10 +31,10 @@ type Result struct {
 	// the smoothed pairs file reads).
 	rawGiven  []exchange.Row
 	rawCounts *raytrace.Result
-	Smoothed   *smooth.Result
-	Solution   *exchange.Solution
-	Info       []NodeInfo
-	AmbientT   float64 // K
+	Smoothed  *smooth.Result
+	Solution  *exchange.Solution
+	Info      []NodeInfo
+	AmbientT  float64 // K
 	// Absorption says the matrices hold absorption factors B_ij (rays
 	// followed through reflections) rather than view factors F_ij.
 	Absorption bool
@@ -95,13 +95,16 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 			weight[i] *= o.Emissivity
 		}
 	}
-	// Each replicate is smoothed when its job comes and dropped once
+	// Each replicate is smoothed when its job comes and handed back once
 	// solved, so that no more than one smoothed replicate per worker is
-	// held beside the pooled matrix.
-	pooled := func() (*smooth.Result, error) { return smoothTally(weight, &res.Tally, open) }
+	// held beside the pooled matrix, and the smoothings share one
+	// workspace: a replicate reuses the arrays the smoothings before it
+	// are done with instead of touching new memory.
+	ws := new(smooth.Workspace)
+	pooled := func() (*smooth.Result, error) { return smoothTally(ws, weight, &res.Tally, open) }
 	reps := make([]replicate, len(res.Replicas))
 	for r := range reps {
-		reps[r] = replicate{index: r, smooth: func() (*smooth.Result, error) { return smoothTally(weight, &res.Replicas[r], open) }}
+		reps[r] = replicate{index: r, smooth: func() (*smooth.Result, error) { return smoothTally(ws, weight, &res.Replicas[r], open) }, done: ws.Recycle}
 	}
 	a, err := in.solve(res.Nodes, pooled, reps, open, absorption, res.Options.Confidence)
 	if err != nil {
@@ -132,19 +135,21 @@ func (a *Result) RawRow(i int, scratch []float64) exchange.Row {
 // smoothTally smooths a tally (pooled or a replicate) for reciprocity with
 // the given weights: the areas for view factors (A_iF_ij = A_jF_ji), the
 // emission areas for absorption factors (ε_iA_iB_ij = ε_jA_jB_ji).
-func smoothTally(weight []float64, t *raytrace.Tally, open bool) (*smooth.Result, error) {
+func smoothTally(ws *smooth.Workspace, weight []float64, t *raytrace.Tally, open bool) (*smooth.Result, error) {
 	c := smooth.Counts{Area: weight, Rays: t.Rays, Hits: t.Hits}
 	if open {
 		c.Ambient = t.Escaped
 	}
-	return smooth.Smooth(c)
+	return ws.Smooth(c)
 }
 
-// replicate is one replicate tally to smooth and solve: its number and
-// how to smooth it.
+// replicate is one replicate tally to smooth and solve: its number, how to
+// smooth it, and what to do with the smoothed matrix once solved (nil:
+// nothing).
 type replicate struct {
 	index  int
 	smooth func() (*smooth.Result, error)
+	done   func(*smooth.Result)
 }
 
 // solve smooths the pooled matrix (pooled) and solves the exchange with it
@@ -251,6 +256,9 @@ func (in *Input) solveReplicate(nodes []raytrace.Node, rep replicate, states []s
 	sm, err := rep.smooth()
 	if err != nil {
 		return nil, nil, err
+	}
+	if rep.done != nil {
+		defer rep.done(sm)
 	}
 	p, _, err := problem(in.Case, in.Mesh, nodes, sm, open)
 	if err != nil {

@@ -8,7 +8,7 @@ import "math"
 // visited once and written to both of its rows, and a pair's count in
 // the other direction is its pooled count less this one's, so no
 // transpose of the counts is needed.
-func assemble(in Counts, offd *pairs, lam []float64, iters int) *Result {
+func assemble(in Counts, offd *pairs, lam []float64, iters int, w *Workspace) *Result {
 	n := len(in.Area)
 	res := &Result{F: make([]FactorRow, n), Ambient: make([]float64, n), MovedAmbient: make([]float64, n), Iterations: iters, hits: in.Hits, rays: in.Rays}
 	raw := func(i int, k int64) float64 { return float64(k) / float64(in.Rays[i]) }
@@ -38,7 +38,8 @@ func assemble(in Counts, offd *pairs, lam []float64, iters int) *Result {
 		start[i+1] += start[i]
 	}
 	next := append([]int(nil), start[:n]...)
-	cols, vals := make([]int32, start[n]), make([]float64, start[n])
+	cols, vals := w.lendInts(start[n]), w.lendFloats(start[n])
+	res.cols, res.vals = cols, vals
 	// Row sums, raw and smoothed, in column order as a row is read: the
 	// ambient first for the raw one, then the pairs below the diagonal
 	// as they come.

@@ -40,6 +40,9 @@ type Result struct {
 	// The counts, for Moved.
 	hits []CountRow
 	rays []int64
+	// The arrays all rows of F share, for Workspace.Recycle.
+	cols []int32
+	vals []float64
 }
 
 // Moved returns how far F[i].Val[k] moved from the raw estimate, in
@@ -85,16 +88,15 @@ type pairs struct {
 	w []float64
 }
 
-func newPairs(nodes, capacity int) pairs {
-	return pairs{start: make([]int, nodes+1), j: make([]int32, 0, capacity), c: make([]float64, 0, capacity)}
-}
-
 func (ps *pairs) add(j int32, c float64) {
 	ps.j, ps.c = append(ps.j, j), append(ps.c, c)
 }
 
 // Smooth returns the constrained maximum-likelihood matrix for the counts.
-func Smooth(in Counts) (*Result, error) {
+func Smooth(in Counts) (*Result, error) { return (*Workspace)(nil).Smooth(in) }
+
+// Smooth is Smooth with arrays lent by w.
+func (w *Workspace) Smooth(in Counts) (*Result, error) {
 	n := len(in.Area)
 	if len(in.Rays) != n || len(in.Hits) != n || (in.Ambient != nil && len(in.Ambient) != n) {
 		return nil, errors.New("smooth: Area, Rays, Hits and Ambient have different lengths")
@@ -123,16 +125,22 @@ func Smooth(in Counts) (*Result, error) {
 			}
 		}
 	}
-	offd, diagC := poolPairs(in)
+	offd, diagC := poolPairs(in, w)
+	defer func() {
+		w.giveInts(offd.j)
+		w.giveFloats(offd.c)
+		w.giveFloats(offd.w)
+	}()
 	lam := make([]float64, n)
 	for i := range n {
 		lam[i] = float64(in.Rays[i]) / in.Area[i]
 	}
+	offd.w = w.lendFloats(len(offd.j))
 	iters, err := newton(lam, in.Area, &offd, diagC)
 	if err != nil {
 		return nil, err
 	}
-	return assemble(in, &offd, lam, iters), nil
+	return assemble(in, &offd, lam, iters, w), nil
 }
 
 // poolPairs pools the counts of each unordered pair i < j seen: row i's
@@ -140,17 +148,22 @@ func Smooth(in Counts) (*Result, error) {
 // triangle transposed: half of the counts). Pairs come out in (i, j)
 // order, so every floating-point sum, and so the result, is the same bit
 // for bit from run to run. diagC[i] is k_ii + k_i,amb.
-func poolPairs(in Counts) (offd pairs, diagC []float64) {
+func poolPairs(in Counts, w *Workspace) (offd pairs, diagC []float64) {
 	n := len(in.Area)
-	low := transposeLower(in.Hits)
-	entries := 0
+	low := transposeLower(in.Hits, w)
+	defer func() {
+		w.giveInts(low.j)
+		w.giveFloats(low.k)
+	}()
+	// Count the pairs first: arrays of the exact size, lent or new.
+	above := make([]int, n) // position of row i's first count above the diagonal
+	total := 0
 	for i := range n {
-		entries += in.Hits[i].Len()
+		a := &in.Hits[i]
+		above[i] = firstAbove(a, i)
+		total += unionLen(a.Col[above[i]:], low.j[low.start[i]:low.start[i+1]])
 	}
-	// Every pair seen has a count in at least one direction, so there are
-	// at most as many pairs as entries: one allocation instead of a slice
-	// that doubles (10⁷ pairs and more at 10⁴ nodes).
-	offd = newPairs(n, entries)
+	offd = pairs{start: make([]int, n+1), j: w.lendInts(total)[:0], c: w.lendFloats(total)[:0]}
 	diagC = make([]float64, n)
 	for i := range n {
 		if in.Ambient != nil {
@@ -158,16 +171,34 @@ func poolPairs(in Counts) (offd pairs, diagC []float64) {
 		}
 		offd.start[i] = len(offd.j)
 		a := &in.Hits[i]
-		x := firstAbove(a, i)
 		if d := diagonalAt(a, i); d >= 0 {
 			diagC[i] += float64(a.Val[d])
 		}
-		mergeCounts(a.Col[x:], a.Val[x:], low.j[low.start[i]:low.start[i+1]], low.k[low.start[i]:low.start[i+1]], func(j int32, kij, kji int64) {
-			offd.add(j, float64(kij+kji))
+		x := above[i]
+		mergeCounts(a.Col[x:], a.Val[x:], low.j[low.start[i]:low.start[i+1]], low.k[low.start[i]:low.start[i+1]], func(j int32, kij int64, kji float64) {
+			offd.add(j, float64(kij)+kji)
 		})
 	}
 	offd.start[n] = len(offd.j)
 	return offd, diagC
+}
+
+// unionLen is the number of distinct values in two increasing lists.
+func unionLen(a, b []int32) int {
+	x, y, n := 0, 0, 0
+	for x < len(a) && y < len(b) {
+		switch {
+		case a[x] < b[y]:
+			x++
+		case b[y] < a[x]:
+			y++
+		default:
+			x++
+			y++
+		}
+		n++
+	}
+	return n + len(a) - x + len(b) - y
 }
 
 // lowerCounts is the strictly lower triangle of the counts, transposed:
@@ -176,10 +207,10 @@ func poolPairs(in Counts) (offd pairs, diagC []float64) {
 type lowerCounts struct {
 	start []int
 	j     []int32
-	k     []int64
+	k     []float64 // exact: counts below 2⁵³
 }
 
-func transposeLower(hits []CountRow) lowerCounts {
+func transposeLower(hits []CountRow, w *Workspace) lowerCounts {
 	n := len(hits)
 	t := lowerCounts{start: make([]int, n+1)}
 	for j := range hits {
@@ -190,12 +221,12 @@ func transposeLower(hits []CountRow) lowerCounts {
 	for i := range n {
 		t.start[i+1] += t.start[i]
 	}
-	t.j, t.k = make([]int32, t.start[n]), make([]int64, t.start[n])
+	t.j, t.k = w.lendInts(t.start[n]), w.lendFloats(t.start[n])
 	next := append([]int(nil), t.start[:n]...)
 	for j := range hits {
 		r := &hits[j]
 		for m, i := range r.Col[:firstAbove(r, j-1)] {
-			t.j[next[i]], t.k[next[i]] = int32(j), r.Val[m]
+			t.j[next[i]], t.k[next[i]] = int32(j), float64(r.Val[m])
 			next[i]++
 		}
 	}
@@ -205,7 +236,7 @@ func transposeLower(hits []CountRow) lowerCounts {
 // mergeCounts calls fn for every column present in (ca, ka) or (cb, kb),
 // both increasing, with the count of each (0 where absent), columns
 // increasing.
-func mergeCounts(ca []int32, ka []int64, cb []int32, kb []int64, fn func(j int32, a, b int64)) {
+func mergeCounts(ca []int32, ka []int64, cb []int32, kb []float64, fn func(j int32, a int64, b float64)) {
 	x, y := 0, 0
 	for x < len(ca) || y < len(cb) {
 		switch {
@@ -330,7 +361,6 @@ const (
 // newton minimises D over λ in place and returns the iterations used.
 func newton(lam, area []float64, offd *pairs, diagC []float64) (int, error) {
 	n := len(lam)
-	offd.w = make([]float64, len(offd.j))
 	g, step, trial, gt := make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
 	gnorm, _ := gradient(g, lam, area, offd, diagC)
 	// D at λ, computed only when the line search needs it: a step that

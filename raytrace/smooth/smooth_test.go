@@ -399,8 +399,8 @@ func TestAssembleByDefinition(t *testing.T) {
 		for i := range lam {
 			lam[i] = 0.5 + 2*rng.Float64()
 		}
-		offd, _ := poolPairs(c)
-		r := assemble(c, &offd, lam, 0)
+		offd, _ := poolPairs(c, nil)
+		r := assemble(c, &offd, lam, 0, nil)
 		for i := range n {
 			var want FactorRow
 			for j := range n {
@@ -415,5 +415,62 @@ func TestAssembleByDefinition(t *testing.T) {
 				t.Fatalf("%d nodes, row %d:\n got %v %v\nwant %v %v", n, i, r.F[i].Col, r.F[i].Val, want.Col, want.Val)
 			}
 		}
+	}
+}
+
+// A workspace lends arrays that hold whatever the last smoothing left (here
+// poisoned with NaN and −1): a smoothing with them equals one with new
+// arrays to the bit, matrix and diagnostics.
+func TestWorkspaceReuse(t *testing.T) {
+	area := []float64{1.9, 1, 1}
+	F := [][]float64{{0, 0.5, 0.5}, {0.95, 0, 0}, {0.95, 0, 0}}
+	rng := rand.New(rand.NewPCG(3, 3))
+	var w Workspace
+	for size := 1; size < 5000; size *= 3 { // spares of every size, poisoned below
+		w.giveInts(make([]int32, size))
+		w.giveFloats(make([]float64, size))
+		w.giveFloats(make([]float64, size))
+	}
+	for seed := range 4 {
+		c := sampleCounts(rng, area, F, []float64{0, 0.05, 0.05}, int64(300+100*seed))
+		want, err := Smooth(c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, err := w.Smooth(c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i := range want.F {
+			if !slices.Equal(got.F[i].Col, want.F[i].Col) || !slices.Equal(got.F[i].Val, want.F[i].Val) {
+				t.Fatalf("seed %d row %d: %v %v with the workspace, %v %v without", seed, i, got.F[i].Col, got.F[i].Val, want.F[i].Col, want.F[i].Val)
+			}
+		}
+		if !slices.Equal(got.Ambient, want.Ambient) || got.MaxMoved != want.MaxMoved || got.SummationAfter != want.SummationAfter || got.ReciprocityBefore != want.ReciprocityBefore {
+			t.Fatalf("seed %d: diagnostics differ", seed)
+		}
+		for _, s := range w.floats {
+			for k := range s[:cap(s)] {
+				s[:cap(s)][k] = math.NaN()
+			}
+		}
+		for _, s := range w.ints {
+			for k := range s[:cap(s)] {
+				s[:cap(s)][k] = -1
+			}
+		}
+		got, err = w.Smooth(c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i := range want.F {
+			if !slices.Equal(got.F[i].Col, want.F[i].Col) || !slices.Equal(got.F[i].Val, want.F[i].Val) {
+				t.Fatalf("seed %d row %d: %v %v with poisoned arrays, %v %v with new ones", seed, i, got.F[i].Col, got.F[i].Val, want.F[i].Col, want.F[i].Val)
+			}
+		}
+		if !slices.Equal(got.Ambient, want.Ambient) || got.MaxMoved != want.MaxMoved || got.SummationAfter != want.SummationAfter || got.ReciprocityBefore != want.ReciprocityBefore {
+			t.Fatalf("seed %d: diagnostics differ with poisoned arrays", seed)
+		}
+		w.Recycle(got)
 	}
 }
