@@ -66,6 +66,14 @@ func (in *Input) Analyse(res *raytrace.Result) (*Result, error) {
 			return nil, fmt.Errorf("no ray has been traced from %s yet (a time limit or an interrupt came too soon): continue the trace with --resume, or give it more time", n.Name)
 		}
 	}
+	// Collect the trace's garbage (its workers' buffers) first, so that
+	// the analysis reuses that memory and the check below sees what is
+	// free; and the analysis's own (the smoothing workspace) at the end,
+	// for the writing. On some virtual machines a first touch of memory
+	// costs seconds a gigabyte, far more than collecting a heap of large
+	// arrays without pointers.
+	runtime.GC()
+	defer runtime.GC()
 	if err := in.checkMemory(res); err != nil {
 		return nil, err
 	}

@@ -77,15 +77,27 @@ func TestFloatMemo(t *testing.T) {
 // lines.
 func BenchmarkWriteMTX(b *testing.B) {
 	const rows, per, rays = 2000, 1000, 3000
-	dir := b.TempDir()
-	for b.Loop() {
-		err := writeMTX(filepath.Join(dir, "m.mtx"), "general", "bench", rows, 10000, rows*per, rows, func(i int, put func(i, j int, v float64)) {
-			for k := range per {
-				put(i, k*10, float64(1+(i*k)%3)/rays)
+	// Raw factors k/N repeat a few values; smoothed ones are all
+	// different, full 17-digit numbers.
+	for _, m := range []struct {
+		name  string
+		value func(i, k int) float64
+	}{
+		{"raw", func(i, k int) float64 { return float64(1+(i*k)%3) / rays }},
+		{"smoothed", func(i, k int) float64 { return (1 + 0.37*math.Sin(float64(i*per+k))) / 7919 }},
+	} {
+		b.Run(m.name, func(b *testing.B) {
+			dir := b.TempDir()
+			for b.Loop() {
+				err := writeMTX(filepath.Join(dir, "m.mtx"), "general", "bench", rows, 10000, rows*per, rows, func(i int, put func(i, j int, v float64)) {
+					for k := range per {
+						put(i, k*10, m.value(i, k))
+					}
+				})
+				if err != nil {
+					b.Fatal(err)
+				}
 			}
 		})
-		if err != nil {
-			b.Fatal(err)
-		}
 	}
 }
