@@ -61,6 +61,8 @@ func problem(c *Case, m *mesh.Mesh, nodes []raytrace.Node, sm *smooth.Result, op
 	p := exchange.Problem{
 		Area: make([]float64, n), Emissivity: make([]float64, n), Cond: make([]exchange.Condition, n),
 		F: sm.F,
+		// Smoothing measured its own reciprocity: round-off, as a rule.
+		Reciprocal: sm.ReciprocityAfter <= 1e-12,
 	}
 	info := make([]NodeInfo, n)
 	if open {

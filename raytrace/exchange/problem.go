@@ -55,6 +55,13 @@ type Problem struct {
 	// reflections and transmissions (rays followed through them), rather
 	// than view factors; reciprocity then reads ε_iA_iB_ij = ε_jA_jB_ji.
 	Absorption bool
+	// Reciprocal says that A_kF_kj = A_jF_jk is known to hold to
+	// round-off (ε_kA_kB_kj = ε_jA_jB_jk for absorption factors), as
+	// smoothing makes it: an iterative solve then takes the symmetry of
+	// its matrix for granted instead of pairing every view factor with
+	// its mirror, which at 10⁴ nodes took longer than the solve itself.
+	// Leave it false for factors of unknown origin.
+	Reciprocal bool
 	// Load, if set, is the power each node absorbs from outside the
 	// infrared exchange in W (sunlight): it enters every node's energy
 	// balance (see solveLoaded).

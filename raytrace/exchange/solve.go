@@ -72,7 +72,7 @@ func Solve(p Problem) (*Solution, error) {
 			nv++
 		}
 	}
-	s := &system{n: nv, rhs: make([]float64, nv), f: p.F, scale: make([]float64, n), v: varJ}
+	s := &system{n: nv, rhs: make([]float64, nv), f: p.F, scale: make([]float64, n), v: varJ, reciprocal: p.Reciprocal}
 	// irradiation puts node k's view-factor terms −a·Σ_j F_kj J_j in row
 	// varJ[k] (read from F itself, see system) and moves those of known
 	// radiosities, with a·F_amb·σT_amb⁴, to the right-hand side.

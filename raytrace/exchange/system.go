@@ -27,6 +27,9 @@ type system struct {
 	f     []Row
 	scale []float64 // 0: node k has no row (its radiosity is known)
 	v     []int     // node → unknown, −1 where the radiosity is known
+	// reciprocal: the view-factor terms are known to be symmetric (see
+	// Problem.Reciprocal).
+	reciprocal bool
 }
 
 func (s *system) add(r, c int, v float64) {
@@ -181,6 +184,9 @@ func dot(row *Row, xs []float64) float64 {
 func (op *operator) symmetric() bool {
 	if !op.small.Symmetric() {
 		return false
+	}
+	if op.reciprocal {
+		return true
 	}
 	// As in sparse.CSR.Symmetric: rows in order, so the mirrors of row k's
 	// terms below the diagonal come up in rows j in increasing k, one
