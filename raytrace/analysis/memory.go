@@ -9,14 +9,18 @@ import (
 )
 
 // bytesPerEntry is what the analysis holds per entry of a matrix it is
-// smoothing and solving (the counts' transpose, the pairs and Hessian
-// weights, the smoothed matrix, the solver's system), measured on the
-// 10⁴-node sphere at 10⁴ rays per node (go run ./bench -scale
-// -scale-rays 10000): a peak of 8.4 GB of heap with 6.3·10⁷ pooled entries
-// and a replicate of 2.2·10⁷ in work beside it on 2 cores, 1.8 GB of it
-// the tallies, is about 80 bytes an entry (95 before the smoothing stopped
-// storing its moves); 120 leaves room for the garbage collector's lag.
-const bytesPerEntry = 120
+// smoothing and solving: the lower triangle of the counts transposed (6
+// bytes an entry), the pairs and their Hessian weights (20 bytes a pair,
+// at most one pair an entry) and the smoothed matrix (12 bytes an entry
+// of the pattern and its mirror, at most two an entry): at most 50 bytes,
+// when every pair is seen one way only, and garbage not yet collected
+// beside it. Measured peaks: 38 bytes an entry on the 10⁴-node sphere at
+// 10⁴ rays per node (go run ./bench -scale -scale-rays 10000: 5.0 GB of
+// heap with 6.3·10⁷ pooled entries and a replicate of 2.2·10⁷ in work
+// beside it on 2 cores, 1.8 GB of it the tallies), where most pairs are
+// seen both ways; about 72 on facet nodes of a box at 150 rays
+// (TestAnalysisWithinItsEstimate), where most are seen one way.
+const bytesPerEntry = 100
 
 // AnalysisBytes estimates the memory Analyse needs for res beyond what
 // res holds: the pooled matrix in work, and beside it one replicate per
@@ -33,14 +37,22 @@ func AnalysisBytes(res *raytrace.Result) int64 {
 	for k := range res.Replicas {
 		worst = max(worst, entries(&res.Replicas[k]))
 	}
-	return analysisBytes(entries(&res.Tally), worst, len(res.Replicas))
+	return analysisBytes(len(res.Nodes), entries(&res.Tally), worst, len(res.Replicas))
 }
 
 // analysisBytes is the memory of the pooled matrix's entries in work with,
-// beside it, one replicate of worst entries per further worker.
-func analysisBytes(pooled, worst int64, replicates int) int64 {
+// beside it, one replicate of worst entries per further worker; and, up to
+// exchange.DenseLimit nodes, the dense matrices of the solves running side
+// by side (each its matrix, its LU factors, and the last solve's pair not
+// yet collected).
+func analysisBytes(nodes int, pooled, worst int64, replicates int) int64 {
 	side := int64(min(replicates, max(1, runtime.GOMAXPROCS(0)-1)))
-	return bytesPerEntry * (pooled + side*worst)
+	need := bytesPerEntry * (pooled + side*worst)
+	if nodes <= exchange.DenseLimit {
+		n := int64(nodes)
+		need += (1 + side) * 4 * 8 * n * n
+	}
+	return need
 }
 
 // PlannedAnalysisBytes bounds, before any ray is traced, what
@@ -48,11 +60,11 @@ func analysisBytes(pooled, worst int64, replicates int) int64 {
 // row holds at most one entry per ray and one per node, so the pooled
 // matrix has at most nodes·min(nodes, rays) entries and a replicate
 // nodes·min(nodes, ⌈rays/R⌉). The bound is reached where every node sees
-// most others (a closed sphere of 10⁴ nodes at 10⁴ rays had 63 % of it);
-// a model whose nodes see few others needs far less.
+// most others (a closed sphere of 10⁴ nodes at 10⁴ rays had 63 % of its
+// entries); a model whose nodes see few others needs far less.
 func PlannedAnalysisBytes(nodes int, s raytrace.Settings) int64 {
 	pooled, worst := plannedEntries(nodes, s)
-	return analysisBytes(pooled, worst, s.WithDefaults().Replicates)
+	return analysisBytes(nodes, pooled, worst, s.WithDefaults().Replicates)
 }
 
 // plannedEntries bounds the entries of the pooled matrix and of the

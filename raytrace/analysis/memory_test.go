@@ -2,6 +2,9 @@ package analysis
 
 import (
 	"context"
+	"runtime"
+	"sync/atomic"
+	"time"
 	"testing"
 
 	"github.com/hemiray/hemiray/geometry"
@@ -29,4 +32,62 @@ func TestPlannedAnalysisBytesBoundsTheTrace(t *testing.T) {
 				len(res.Nodes), s.Rays, s.Replicates, got, bound)
 		}
 	}
+}
+
+// The analysis's peak heap (sampled while it runs, above what was held
+// before it) stays within AnalysisBytes, no conductances (their dense
+// memory is estimated apart): 768 facet nodes of a closed box (dense LU
+// solves, whose matrices the estimate counts too) and 3,468 (iterative
+// solves, so the entries are what counts), 4 replicates.
+func TestAnalysisWithinItsEstimate(t *testing.T) {
+	for _, c := range []struct {
+		divisions int
+		rays      int64
+	}{{8, 400}, {17, 150}} {
+		m := mesh.Box("box", geometry.Box{Max: geometry.Vec3{X: 1, Y: 1, Z: 1}}, c.divisions, true)
+		s := raytrace.Settings{Rays: c.rays, Seed: 4, FacetNodes: true, Replicates: 4}
+		res, err := raytrace.Estimate(context.Background(), m, raytrace.Options{Settings: s})
+		if err != nil {
+			t.Fatal(err)
+		}
+		eps, T, no := 0.8, 300.0, false
+		in := &Input{Case: &Case{Defaults: SurfaceSpec{Emissivity: &eps, Temperature: &T}, Output: OutputSpec{Conductances: &no}}, Mesh: m, Settings: s}
+		used := peakHeap(t, func() error { _, err := in.Analyse(res); return err })
+		estimate := AnalysisBytes(res)
+		t.Logf("%d nodes: peak %d bytes above the start, estimate %d (%.0f%%)", len(res.Nodes), used, estimate, 100*float64(used)/float64(estimate))
+		if used > estimate {
+			t.Errorf("%d nodes: the analysis's heap peaked %d bytes above its start, more than the estimate of %d", len(res.Nodes), used, estimate)
+		}
+	}
+}
+
+// peakHeap runs fn and returns the largest heap it held above the heap
+// before it, sampled every 200 µs.
+func peakHeap(t *testing.T, fn func() error) int64 {
+	runtime.GC()
+	var ms runtime.MemStats
+	runtime.ReadMemStats(&ms)
+	base := ms.HeapAlloc
+	var peak atomic.Uint64
+	done, stopped := make(chan struct{}), make(chan struct{})
+	go func() {
+		defer close(stopped)
+		var ms runtime.MemStats
+		for {
+			runtime.ReadMemStats(&ms)
+			peak.Store(max(peak.Load(), ms.HeapAlloc))
+			select {
+			case <-done:
+				return
+			case <-time.After(200 * time.Microsecond):
+			}
+		}
+	}()
+	err := fn()
+	close(done)
+	<-stopped
+	if err != nil {
+		t.Fatal(err)
+	}
+	return int64(peak.Load() - min(peak.Load(), base))
 }
