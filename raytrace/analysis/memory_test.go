@@ -4,8 +4,8 @@ import (
 	"context"
 	"runtime"
 	"sync/atomic"
-	"time"
 	"testing"
+	"time"
 
 	"github.com/hemiray/hemiray/geometry"
 	"github.com/hemiray/hemiray/mesh"
