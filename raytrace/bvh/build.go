@@ -33,9 +33,12 @@ type Options struct {
 // float32 numbers, and node bounds need no outward rounding.
 type box struct{ lo, hi [3]float32 }
 
-func emptyBox() box {
-	inf := float32(math.Inf(1))
-	return box{[3]float32{inf, inf, inf}, [3]float32{-inf, -inf, -inf}}
+func emptyBox() box { return empty }
+
+// empty holds no point: every bound is on the wrong side.
+var empty = box{
+	[3]float32{float32(math.Inf(1)), float32(math.Inf(1)), float32(math.Inf(1))},
+	[3]float32{float32(math.Inf(-1)), float32(math.Inf(-1)), float32(math.Inf(-1))},
 }
 
 // grow extends b to hold o, with the min and max builtins, which compile
@@ -256,23 +259,25 @@ func measure(l, r []prim) sides {
 // It returns the size of the left part (0 when a leaf is cheaper, −1 when
 // no plane separates the centroids) and the bounds of both parts.
 func (b *builder) sahSplit(ps []prim, bounds *box, cmin, extent float64, axis, n int) (int, sides) {
+	// No more bins than triangles: near the leaves most nodes hold a few,
+	// and sweeping twelve bins for them was most of the build's time.
+	bins := min(numBins, n)
 	var counts [numBins]int
 	var boxes [numBins]box
-	for i := range boxes {
-		boxes[i] = emptyBox()
+	for i := range bins {
+		boxes[i] = empty
 	}
-	scale := numBins * (1 - 1e-6) / extent
+	scale := float64(bins) * (1 - 1e-6) / extent
 	for i := range ps {
 		k := int((float64(ps[i].centre(axis)) - cmin) * scale)
-		k = min(max(k, 0), numBins-1)
+		k = min(max(k, 0), bins-1)
 		counts[k]++
 		boxes[k].grow(&ps[i].b)
-
 	}
 	// Backward sweep: area·count of everything right of each plane.
 	var rightCost [numBins]float64
 	acc, cnt := emptyBox(), 0
-	for k := numBins - 1; k > 0; k-- {
+	for k := bins - 1; k > 0; k-- {
 		acc.grow(&boxes[k])
 		cnt += counts[k]
 		rightCost[k] = acc.area() * float64(cnt)
@@ -280,7 +285,7 @@ func (b *builder) sahSplit(ps []prim, bounds *box, cmin, extent float64, axis, n
 	// Forward sweep: add the left side and keep the cheapest plane.
 	best, bestK := math.Inf(1), -1
 	acc, cnt = emptyBox(), 0
-	for k := 1; k < numBins; k++ {
+	for k := 1; k < bins; k++ {
 		acc.grow(&boxes[k-1])
 		cnt += counts[k-1]
 		if cnt == 0 || cnt == n {
@@ -304,7 +309,7 @@ func (b *builder) sahSplit(ps []prim, bounds *box, cmin, extent float64, axis, n
 		return 0, sides{}
 	}
 	sd := sides{emptyBox(), emptyBox()}
-	for k := range numBins {
+	for k := range bins {
 		if k < bestK {
 			sd.lb.grow(&boxes[k])
 		} else {
