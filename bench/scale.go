@@ -5,10 +5,9 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
-	"runtime"
-	"sync/atomic"
 	"time"
 
+	"github.com/hemiray/hemiray/internal/heappeak"
 	"github.com/hemiray/hemiray/mesh"
 	"github.com/hemiray/hemiray/raytrace"
 	"github.com/hemiray/hemiray/raytrace/analysis"
@@ -55,41 +54,24 @@ func runScale(name string, m *mesh.Mesh, per int, rays int64, threads int, drop 
 		return r, err
 	}
 	defer os.RemoveAll(dir)
-	runtime.GC()
-	var base runtime.MemStats
-	runtime.ReadMemStats(&base)
-	var peak atomic.Uint64
-	done, stopped := make(chan struct{}), make(chan struct{})
-	go func() { // sample the heap: the pipeline's peak above what was there
-		defer close(stopped)
-		var ms runtime.MemStats
-		for {
-			runtime.ReadMemStats(&ms)
-			peak.Store(max(peak.Load(), ms.HeapAlloc))
-			select {
-			case <-done:
-				return
-			case <-time.After(20 * time.Millisecond):
-			}
+	var t *analysis.Traced
+	var a *analysis.Result
+	var t0, t1, t2, t3 time.Time
+	// The heap sampled while the pipeline runs: its peak above what was there.
+	peak, err := heappeak.Run(20*time.Millisecond, func() (err error) {
+		t0 = time.Now()
+		if t, err = in.Trace(context.Background(), analysis.Run{Dir: dir, Threads: threads, MemoryLimit: -1}); err != nil {
+			return err
 		}
-	}()
-	t0 := time.Now()
-	t, err := in.Trace(context.Background(), analysis.Run{Dir: dir, Threads: threads, MemoryLimit: -1})
-	if err != nil {
-		close(done)
-		return r, err
-	}
-	t1 := time.Now()
-	a, err := in.Analyse(t.Result)
-	if err != nil {
-		close(done)
-		return r, err
-	}
-	t2 := time.Now()
-	_, err = report.Write(dir, report.Outputs{Input: in, Traced: t, Analysis: a, Compact: true})
-	t3 := time.Now()
-	close(done)
-	<-stopped
+		t1 = time.Now()
+		if a, err = in.Analyse(t.Result); err != nil {
+			return err
+		}
+		t2 = time.Now()
+		_, err = report.Write(dir, report.Outputs{Input: in, Traced: t, Analysis: a, Compact: true})
+		t3 = time.Now()
+		return err
+	})
 	if err != nil {
 		return r, err
 	}
@@ -101,7 +83,7 @@ func runScale(name string, m *mesh.Mesh, per int, rays int64, threads int, drop 
 		}
 	}
 	r.traceS, r.analyseS, r.writeS = t1.Sub(t0).Seconds(), t2.Sub(t1).Seconds(), t3.Sub(t2).Seconds()
-	r.peakHeapGB = float64(peak.Load()-min(peak.Load(), base.HeapAlloc)) / (1 << 30)
+	r.peakHeapGB = float64(peak) / (1 << 30)
 	files, _ := filepath.Glob(filepath.Join(dir, "*"))
 	for _, f := range files {
 		if st, err := os.Stat(f); err == nil {

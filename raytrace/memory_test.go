@@ -2,12 +2,11 @@ package raytrace
 
 import (
 	"context"
-	"runtime"
-	"sync/atomic"
 	"testing"
 	"time"
 
 	"github.com/hemiray/hemiray/geometry"
+	"github.com/hemiray/hemiray/internal/heappeak"
 	"github.com/hemiray/hemiray/mesh"
 )
 
@@ -20,29 +19,11 @@ func TestFacetMemoryBound(t *testing.T) {
 	for _, reps := range []int{0, 4} {
 		m := mesh.Box("", geometry.Box{Max: geometry.Vec3{X: 1, Y: 1, Z: 1}}, 8, true)
 		o := Options{Settings: Settings{Rays: 2000, Seed: 1, FacetNodes: true, Replicates: reps}, Threads: 2}
-		runtime.GC()
-		var base runtime.MemStats
-		runtime.ReadMemStats(&base)
-		var peak atomic.Uint64
-		done, stopped := make(chan struct{}), make(chan struct{})
-		go func() {
-			defer close(stopped)
-			var ms runtime.MemStats
-			for {
-				runtime.ReadMemStats(&ms)
-				if ms.HeapAlloc > peak.Load() {
-					peak.Store(ms.HeapAlloc)
-				}
-				select {
-				case <-done:
-					return
-				case <-time.After(2 * time.Millisecond):
-				}
-			}
-		}()
-		r, err := Estimate(context.Background(), m, o)
-		close(done)
-		<-stopped
+		var r *Result
+		peak, err := heappeak.Run(2*time.Millisecond, func() (err error) {
+			r, err = Estimate(context.Background(), m, o)
+			return err
+		})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -50,7 +31,7 @@ func TestFacetMemoryBound(t *testing.T) {
 			t.Fatal(err)
 		}
 		bound := plannedBytes(len(m.Facets), len(r.Nodes), o)
-		if used := int64(peak.Load()) - int64(base.HeapAlloc); used > bound {
+		if used := int64(peak); used > bound {
 			t.Errorf("%d replicates: the run added %.1f MB of heap, the bound says %.1f MB", reps, float64(used)/1e6, float64(bound)/1e6)
 		}
 	}

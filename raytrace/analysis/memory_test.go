@@ -2,12 +2,11 @@ package analysis
 
 import (
 	"context"
-	"runtime"
-	"sync/atomic"
 	"testing"
 	"time"
 
 	"github.com/hemiray/hemiray/geometry"
+	"github.com/hemiray/hemiray/internal/heappeak"
 	"github.com/hemiray/hemiray/mesh"
 	"github.com/hemiray/hemiray/raytrace"
 )
@@ -52,42 +51,14 @@ func TestAnalysisWithinItsEstimate(t *testing.T) {
 		}
 		eps, T, no := 0.8, 300.0, false
 		in := &Input{Case: &Case{Defaults: SurfaceSpec{Emissivity: &eps, Temperature: &T}, Output: OutputSpec{Conductances: &no}}, Mesh: m, Settings: s}
-		used := peakHeap(t, func() error { _, err := in.Analyse(res); return err })
-		estimate := AnalysisBytes(res)
+		peak, err := heappeak.Run(200*time.Microsecond, func() error { _, err := in.Analyse(res); return err })
+		if err != nil {
+			t.Fatal(err)
+		}
+		used, estimate := int64(peak), AnalysisBytes(res)
 		t.Logf("%d nodes: peak %d bytes above the start, estimate %d (%.0f%%)", len(res.Nodes), used, estimate, 100*float64(used)/float64(estimate))
 		if used > estimate {
 			t.Errorf("%d nodes: the analysis's heap peaked %d bytes above its start, more than the estimate of %d", len(res.Nodes), used, estimate)
 		}
 	}
-}
-
-// peakHeap runs fn and returns the largest heap it held above the heap
-// before it, sampled every 200 µs.
-func peakHeap(t *testing.T, fn func() error) int64 {
-	runtime.GC()
-	var ms runtime.MemStats
-	runtime.ReadMemStats(&ms)
-	base := ms.HeapAlloc
-	var peak atomic.Uint64
-	done, stopped := make(chan struct{}), make(chan struct{})
-	go func() {
-		defer close(stopped)
-		var ms runtime.MemStats
-		for {
-			runtime.ReadMemStats(&ms)
-			peak.Store(max(peak.Load(), ms.HeapAlloc))
-			select {
-			case <-done:
-				return
-			case <-time.After(200 * time.Microsecond):
-			}
-		}
-	}()
-	err := fn()
-	close(done)
-	<-stopped
-	if err != nil {
-		t.Fatal(err)
-	}
-	return int64(peak.Load() - min(peak.Load(), base))
 }

@@ -1,6 +1,7 @@
 package smooth
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -441,14 +442,7 @@ func TestWorkspaceReuse(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		for i := range want.F {
-			if !slices.Equal(got.F[i].Col, want.F[i].Col) || !slices.Equal(got.F[i].Val, want.F[i].Val) {
-				t.Fatalf("seed %d row %d: %v %v with the workspace, %v %v without", seed, i, got.F[i].Col, got.F[i].Val, want.F[i].Col, want.F[i].Val)
-			}
-		}
-		if !slices.Equal(got.Ambient, want.Ambient) || got.MaxMoved != want.MaxMoved || got.SummationAfter != want.SummationAfter || got.ReciprocityBefore != want.ReciprocityBefore {
-			t.Fatalf("seed %d: diagnostics differ", seed)
-		}
+		sameSmoothing(t, fmt.Sprintf("seed %d, the workspace's arrays", seed), got, want)
 		for _, s := range w.floats {
 			for k := range s[:cap(s)] {
 				s[:cap(s)][k] = math.NaN()
@@ -463,14 +457,21 @@ func TestWorkspaceReuse(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		for i := range want.F {
-			if !slices.Equal(got.F[i].Col, want.F[i].Col) || !slices.Equal(got.F[i].Val, want.F[i].Val) {
-				t.Fatalf("seed %d row %d: %v %v with poisoned arrays, %v %v with new ones", seed, i, got.F[i].Col, got.F[i].Val, want.F[i].Col, want.F[i].Val)
-			}
-		}
-		if !slices.Equal(got.Ambient, want.Ambient) || got.MaxMoved != want.MaxMoved || got.SummationAfter != want.SummationAfter || got.ReciprocityBefore != want.ReciprocityBefore {
-			t.Fatalf("seed %d: diagnostics differ with poisoned arrays", seed)
-		}
+		sameSmoothing(t, fmt.Sprintf("seed %d, poisoned arrays", seed), got, want)
 		w.Recycle(got)
+	}
+}
+
+// sameSmoothing fails the test unless got and want hold the same matrix
+// and diagnostics to the bit.
+func sameSmoothing(t *testing.T, what string, got, want *Result) {
+	t.Helper()
+	for i := range want.F {
+		if !slices.Equal(got.F[i].Col, want.F[i].Col) || !slices.Equal(got.F[i].Val, want.F[i].Val) {
+			t.Fatalf("%s: row %d is %v %v, want %v %v", what, i, got.F[i].Col, got.F[i].Val, want.F[i].Col, want.F[i].Val)
+		}
+	}
+	if !slices.Equal(got.Ambient, want.Ambient) || got.MaxMoved != want.MaxMoved || got.SummationAfter != want.SummationAfter || got.ReciprocityBefore != want.ReciprocityBefore {
+		t.Fatalf("%s: the diagnostics differ", what)
 	}
 }
