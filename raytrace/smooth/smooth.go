@@ -129,14 +129,17 @@ func (w *Workspace) Smooth(in Counts) (*Result, error) {
 	defer func() {
 		w.giveInts(offd.j)
 		w.giveFloats(offd.c)
-		w.giveFloats(offd.w)
 	}()
 	lam := make([]float64, n)
 	for i := range n {
 		lam[i] = float64(in.Rays[i]) / in.Area[i]
 	}
+	// The Hessian's weights go back as soon as Newton is done, for a
+	// smoothing beside this one while this one assembles its rows.
 	offd.w = w.lendFloats(len(offd.j))
 	iters, err := newton(lam, in.Area, &offd, diagC)
+	w.giveFloats(offd.w)
+	offd.w = nil
 	if err != nil {
 		return nil, err
 	}
