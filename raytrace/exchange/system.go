@@ -268,8 +268,7 @@ func (op *operator) gaussSeidel(b, x []float64) error {
 			}
 		}
 		if it%10 == 9 {
-			op.mul(res, x)
-			xs = op.spread(x) // mul spread x into the same slice: no change
+			op.mul(res, x) // re-spreads x into xs: the same values
 			for i := range res {
 				res[i] -= b[i]
 			}
