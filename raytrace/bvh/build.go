@@ -115,7 +115,7 @@ func Build(v []geometry.Vec3, f [][3]int32, opts Options) *Tree {
 		// the root and itself, with an empty box no ray enters, so that the
 		// traversal tests the root like any child. Every child pair then
 		// starts at an even index: 64-byte aligned in the page-aligned array.
-		t.nodes = make([]treeNode, 2, len(b.prims)+2)
+		t.nodes = make([]treeNode, 2, 2*len(b.prims))
 		inf := float32(math.Inf(1))
 		t.nodes[sentinel] = treeNode{Bounds: [6]float32{inf, inf, inf, -inf, -inf, -inf}, Offset: 0, Count: 0}
 		bounds := emptyBox()
