@@ -81,9 +81,6 @@ type builder struct {
 	sem   chan struct{} // tokens for extra goroutines
 }
 
-// sentinel is the index of the node above the root (see Build).
-const sentinel = 1
-
 // Build constructs the tree over the triangles (v[f[i][0]], v[f[i][1]],
 // v[f[i][2]]); facet i gets id i. Degenerate triangles are kept (they are
 // never hit), and triangles with non-finite coordinates are left out.
@@ -110,27 +107,22 @@ func Build(v []geometry.Vec3, f [][3]int32, opts Options) *Tree {
 		b.prims = append(b.prims, p)
 	}
 	t := &Tree{}
+	var bin []treeNode
 	if len(b.prims) > 0 {
-		// The root, then the sentinel: an inner node whose children are
-		// the root and itself, with an empty box no ray enters, so that the
-		// traversal tests the root like any child. Every child pair then
-		// starts at an even index: 64-byte aligned in the page-aligned array.
-		t.nodes = make([]treeNode, 2, 2*len(b.prims))
-		inf := float32(math.Inf(1))
-		t.nodes[sentinel] = treeNode{Bounds: [6]float32{inf, inf, inf, -inf, -inf, -inf}, Offset: 0, Count: 0}
+		// A binary tree of n triangles has at most 2n−1 nodes (leaves of
+		// one triangle), so the array never grows.
+		bin = make([]treeNode, 1, 2*len(b.prims))
 		bounds := emptyBox()
 		for i := range b.prims {
 			bounds.grow(&b.prims[i].b)
 		}
-		b.build(&t.nodes, 0, 0, len(b.prims), 1, bounds)
+		b.build(&bin, 0, 0, len(b.prims), 1, bounds)
 	}
-	if cap(t.nodes) > len(t.nodes)+len(t.nodes)/4 {
-		t.nodes = append([]treeNode(nil), t.nodes...) // give back the spare capacity
-	}
+	t.nodes = widen(bin)
 	t.gather(v, f, b.prims)
 	t.Stats.BuildTime = time.Since(start)
 	t.Stats.BuildProcs = threads
-	t.computeStats()
+	t.computeStats(bin)
 	return t
 }
 

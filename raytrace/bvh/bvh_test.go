@@ -19,9 +19,12 @@ func TestNodeSize(t *testing.T) {
 	if s := unsafe.Sizeof(leafTri{}); s != 40 {
 		t.Errorf("leafTri is %d bytes, want 40", s)
 	}
-	// fetchNode (assembly) reads these fields at fixed offsets.
-	if o, c := unsafe.Offsetof(treeNode{}.Offset), unsafe.Offsetof(treeNode{}.Count); o != 24 || c != 28 {
-		t.Errorf("treeNode.Offset at %d, Count at %d; fetchNode assumes 24 and 28", o, c)
+	// fetchChild (assembly) and step assume these sizes.
+	if s := unsafe.Sizeof(wideNode{}); s != wideSize || wideSize != 128 {
+		t.Errorf("wideNode is %d bytes, wideSize %d; fetchChild assumes 128", s, wideSize)
+	}
+	if p := unsafe.Sizeof(wideNode{}.Bounds[0]); p != 16 {
+		t.Errorf("a plane of wideNode bounds is %d bytes, want 16 (four float32)", p)
 	}
 }
 
@@ -284,8 +287,8 @@ func TestBatchMatchesSingle(t *testing.T) {
 // A zero-thickness box (a flat face) is entered by a ray crossing it, and
 // not by a ray that ends before it: the slab test is conservative, never
 // so exact that it drops a box the ray touches (Ize, "Robust BVH ray
-// traversal", JCGT 2(2), 2013). The root of a one-facet tree is such a box,
-// tested through the sentinel like every other.
+// traversal", JCGT 2(2), 2013). The box of a one-facet tree's leaf is such a box,
+// a child of the root like every other box.
 func TestSlabFlatBox(t *testing.T) {
 	v := []geometry.Vec3{{X: 0, Y: 0, Z: 1}, {X: 1, Y: 0, Z: 1}, {X: 0, Y: 1, Z: 1}}
 	tree := Build(v, [][3]int32{{0, 1, 2}}, Options{})

@@ -4,14 +4,16 @@
 //
 // # Layout
 //
-// The tree is flattened into 32-byte nodes with float32 bounds (unexported:
-// the traversal reads them with unchecked pointer arithmetic). Vertices
-// are stored rounded to float32 (RoundVertex), so the bounds of the stored
-// triangles are float32 numbers and are exact, hence conservative. The two children of an inner node sit side by
-// side at Offset and Offset+1, 64-byte aligned, so the traversal's test of
-// both children touches one cache line; the pairs are laid out depth-first. Triangles are stored in
-// leaf order with their float32 vertices and the caller's facet id, 40 bytes
-// each; a leaf's data is one contiguous run.
+// The build makes a binary tree (binned SAH), then widens it: each node of
+// the tree the traversal reads holds up to four children (widen.go), their
+// float32 boxes stored plane by plane, 128 bytes (two cache lines,
+// unexported: the traversal reads them with unchecked pointer arithmetic).
+// A step tests the four boxes, sorts them by entry distance without jumps,
+// and pushes the hit ones it does not visit next. Vertices are stored
+// rounded to float32 (RoundVertex), so the bounds of the stored triangles
+// are float32 numbers and are exact, hence conservative. Triangles are
+// stored in leaf order with their float32 vertices and the caller's facet
+// id, 40 bytes each; a leaf's data is one contiguous run.
 //
 // # Robustness
 //
@@ -23,7 +25,9 @@
 //
 // # Cost
 //
-// Nothing is allocated per ray; traversal uses a fixed stack of 64 entries
-// (depth is capped at 32 SAH levels plus median splits below, which halve
-// the count, so 64 always suffices).
+// Nothing is allocated per ray; traversal uses a fixed stack of 256
+// entries. The binary tree is at most 63 levels deep (32 SAH levels, then
+// median splits, which halve the count of at most 2³¹ triangles), a wide
+// node is at least one binary level below its parent, and a step pushes at
+// most three children: 3·63 + 2 entries (two written above the top) < 256.
 package bvh

@@ -1,8 +1,9 @@
 package bvh
 
-// fetchNode asks the processor to start loading what visiting n will read
-// (its child pair, or its triangles) without waiting for it; see the
-// assembly for the layout it assumes.
+// fetchChild asks the processor to start loading what visiting a child
+// will read (both cache lines of wide node nodes[child] when count is 0,
+// else the first and last cache line of tris[child : child+count]) without
+// waiting for it; see the assembly for the layout it assumes.
 //
 //go:noescape
-func fetchNode(n *treeNode, nodes *treeNode, tris *leafTri)
+func fetchChild(child, count int32, nodes *wideNode, tris *leafTri)

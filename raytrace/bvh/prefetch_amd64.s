@@ -1,25 +1,25 @@
 #include "textflag.h"
 
-// func fetchNode(n *treeNode, nodes *treeNode, tris *leafTri)
+// func fetchChild(child, count int32, nodes *wideNode, tris *leafTri)
 //
-// Prefetches what visiting n reads: for an inner node (Count = 0) the
-// 64-byte child pair at nodes[Offset]; for a leaf the first and the last
-// cache line of tris[Offset : Offset+Count] (40-byte triangles). Offsets
-// are those of treeNode (Offset at 24, Count at 28), pinned by a test.
-TEXT ·fetchNode(SB), NOSPLIT|NOFRAME, $0-24
-	MOVQ n+0(FP), AX
+// Prefetches what visiting a child reads: for an inner child (count = 0)
+// the two cache lines of the 128-byte wide node nodes[child]; for a leaf
+// the first and the last cache line of tris[child : child+count] (40-byte
+// triangles). The sizes are pinned by a test.
+TEXT ·fetchChild(SB), NOSPLIT|NOFRAME, $0-24
+	MOVLQSX child+0(FP), AX
+	MOVLQSX count+4(FP), SI
 	MOVQ nodes+8(FP), BX
 	MOVQ tris+16(FP), CX
-	MOVL 24(AX), DX
-	MOVWLZX 28(AX), SI
-	LEAQ (DX)(DX*4), DI
+	LEAQ (AX)(AX*4), DI
 	LEAQ (CX)(DI*8), DI
 	LEAQ (SI)(SI*4), R8
 	LEAQ -1(DI)(R8*8), R8
-	SHLQ $5, DX
-	ADDQ BX, DX
+	SHLQ $7, AX
+	ADDQ BX, AX
+	LEAQ 64(AX), DX
 	TESTL SI, SI
-	CMOVQEQ DX, DI
+	CMOVQEQ AX, DI
 	CMOVQEQ DX, R8
 	PREFETCHT0 (DI)
 	PREFETCHT0 (R8)

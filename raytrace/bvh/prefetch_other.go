@@ -2,5 +2,5 @@
 
 package bvh
 
-// fetchNode is a no-op where no prefetch instruction is wired in.
-func fetchNode(n *treeNode, nodes *treeNode, tris *leafTri) {}
+// fetchChild is a no-op where no prefetch instruction is wired in.
+func fetchChild(child, count int32, nodes *wideNode, tris *leafTri) {}

@@ -2,6 +2,7 @@ package bvh
 
 import (
 	"math"
+	"unsafe"
 
 	"github.com/hemiray/hemiray/geometry"
 )
@@ -33,8 +34,8 @@ var farScale = 1 + 2*4*0x1p-53/(1-4*0x1p-53)
 
 // aim sets the lane's per-ray constants of the slab test for a ray from o
 // along d up to tMax: origin, reciprocal direction (times farScale for exit
-// distances), and the byte offsets in a node of the near and far plane on
-// each axis.
+// distances), and the byte offsets in a wideNode of the near and far plane
+// on each axis (of its first child; child c is 4c bytes on).
 func (l *lane) aim(o, d geometry.Vec3, tMax float64) {
 	l.ox, l.oy, l.oz = o.X, o.Y, o.Z
 	l.ix, l.iy, l.iz = inverse(d.X), inverse(d.Y), inverse(d.Z)
@@ -42,7 +43,8 @@ func (l *lane) aim(o, d geometry.Vec3, tMax float64) {
 	nx, mx := planes(d.X, 0)
 	ny, my := planes(d.Y, 1)
 	nz, mz := planes(d.Z, 2)
-	l.nx, l.ny, l.nz, l.mx, l.my, l.mz = 4*uintptr(nx), 4*uintptr(ny), 4*uintptr(nz), 4*uintptr(mx), 4*uintptr(my), 4*uintptr(mz)
+	const plane = uintptr(unsafe.Sizeof(wideNode{}.Bounds[0]))
+	l.nx, l.ny, l.nz, l.mx, l.my, l.mz = plane*uintptr(nx), plane*uintptr(ny), plane*uintptr(nz), plane*uintptr(mx), plane*uintptr(my), plane*uintptr(mz)
 	l.tMax, l.tMaxKey = tMax, orderKey(tMax)
 }
 
@@ -53,7 +55,7 @@ func inverse(x float64) float64 {
 	return 1 / x
 }
 
-// planes returns the Bounds indices of the plane a ray along direction
+// planes returns the Bounds plane indices of the plane a ray along direction
 // component x meets first and last on axis k (branch-free: the sign bit
 // picks max before min).
 func planes(x float64, k int) (near, far int) {

@@ -5,9 +5,9 @@ import "time"
 // Stats describes a built tree.
 type Stats struct {
 	Triangles  int
-	Nodes      int
+	Nodes      int // four-wide nodes
 	Leaves     int
-	MaxDepth   int
+	MaxDepth   int     // of the binary tree the build makes before widening
 	MaxLeaf    int     // most triangles in one leaf
 	SAHCost    float64 // expected cost per ray, in triangle tests (Aila, Karras & Laine, HPG 2013)
 	BuildTime  time.Duration
@@ -15,16 +15,18 @@ type Stats struct {
 	BuildProcs int
 }
 
-func (t *Tree) computeStats() {
+// computeStats fills t.Stats; the depth, leaves and SAH cost are those of
+// the binary tree bin, before widening.
+func (t *Tree) computeStats(bin []treeNode) {
 	s := &t.Stats
 	s.Triangles, s.Nodes, s.TreeBytes = len(t.tris), len(t.nodes), t.Bytes()
-	if len(t.nodes) == 0 {
+	if len(bin) == 0 {
 		return
 	}
-	rootArea := nodeArea(&t.nodes[0])
+	rootArea := nodeArea(&bin[0])
 	var walk func(i, depth int)
 	walk = func(i, depth int) {
-		n := &t.nodes[i]
+		n := &bin[i]
 		s.MaxDepth = max(s.MaxDepth, depth)
 		a := 0.0
 		if rootArea > 0 {

@@ -7,15 +7,17 @@ import (
 	"github.com/hemiray/hemiray/geometry"
 )
 
-// stackSize bounds the traversal stack; see the package comment for why 64
-// is enough.
-const stackSize = 64
+// stackSize bounds the traversal stack; see the package comment for why
+// 256 is enough.
+const stackSize = 256
 
-// stackEntry is a subtree to visit later, with the order key of the
-// distance at which the ray enters it.
+// stackEntry is a child to visit later (a wide node, or a leaf's triangles
+// where count > 0), with the order key of the distance at which the ray
+// enters its box (its two low bits hold the child's slot; see step).
 type stackEntry struct {
-	node int32
-	t    int64
+	node  int32
+	count int32
+	t     int64
 }
 
 // Intersect returns the closest hit of the ray from o along d with
@@ -73,7 +75,7 @@ type lane struct {
 	tMax                               float64
 	tMaxKey                            int64
 	hit                                Hit
-	skip, cur, q                       int32
+	skip, cur, count, q                int32 // cur: the wide node, or first triangle where count > 0
 	sp                                 int
 	anyHit                             bool // stop at the first hit (Occluded)
 	stack                              [stackSize]stackEntry
@@ -93,7 +95,7 @@ func (t *Tree) IntersectBatch(b *Batch, qs []Query, hits []Hit) {
 			q := &qs[next]
 			next++
 			if t.startLane(l, q) {
-				t.fetchAhead(0)
+				t.fetchAhead(0, 0)
 				l.q = int32(next - 1)
 				active++
 				return
@@ -128,7 +130,7 @@ func bound(node unsafe.Pointer, off uintptr) float64 {
 	return float64(*(*float32)(unsafe.Add(node, off)))
 }
 
-// startLane loads a query into a lane; false if the ray misses the root.
+// startLane loads a query into a lane at the root; false for an empty tree.
 func (t *Tree) startLane(l *lane, q *Query) bool {
 	if len(t.nodes) == 0 {
 		return false
@@ -136,105 +138,114 @@ func (t *Tree) startLane(l *lane, q *Query) bool {
 	l.aim(q.O, q.D, q.TMax)
 	l.sh = geometry.NewShear(q.O, q.D)
 	l.hit, l.skip, l.sp, l.anyHit = Miss, q.Skip, 0, false
-	// Start at the sentinel above the root (node 1, see Build): one step
-	// tests the root's box with the same slab test as every other box.
-	l.cur = sentinel
-	return !t.step(l)
+	// The root's own box is not tested: its four children's are.
+	l.cur, l.count = 0, 0
+	return true
 }
 
-// fetchAhead starts loading what visiting node i will read: the pair of
-// its children, or its triangles (their first and last cache line; leaves
-// seldom span more than two).
-func (t *Tree) fetchAhead(i int32) {
-	fetchNode(&t.nodes[i], unsafe.SliceData(t.nodes), unsafe.SliceData(t.tris))
+// fetchAhead starts loading what visiting a child reads: both cache lines
+// of a wide node, or a leaf's triangles (their first and last cache line;
+// leaves seldom span more than two).
+func (t *Tree) fetchAhead(child, count int32) {
+	fetchChild(child, count, unsafe.SliceData(t.nodes), unsafe.SliceData(t.tris))
+}
+
+// slotMiss is the order key at and above which a child key means a miss:
+// never with its two low bits cleared for the slot.
+const slotMiss = never &^ 3
+
+// enter4 returns, for each of the four children of the wide node at p,
+// the order key of the distance at which the ray enters its box (the slab
+// test of Kay & Kajiya 1986; see slab.go), with the child's slot in its
+// two low bits, or a key of at least slotMiss if the ray misses the box or
+// enters it beyond tMax. Clearing the two low bits lowers a key by at most
+// 3 units in the last place, so ordering by it stays near-exact and
+// culling by it conservative. Written out for the four children (a
+// function per child is not inlined) so their loads and compares
+// interleave.
+func (l *lane) enter4(p unsafe.Pointer) (k0, k1, k2, k3 int64) {
+	ox, oy, oz := l.ox, l.oy, l.oz
+	ix, iy, iz, fx, fy, fz := l.ix, l.iy, l.iz, l.fx, l.fy, l.fz
+	nx, ny, nz, mx, my, mz := l.nx, l.ny, l.nz, l.mx, l.my, l.mz
+	p1, p2, p3 := unsafe.Add(p, 4), unsafe.Add(p, 8), unsafe.Add(p, 12)
+	a0 := int64(math.Float64bits((bound(p, nx) - ox) * ix))
+	a1 := int64(math.Float64bits((bound(p1, nx) - ox) * ix))
+	a2 := int64(math.Float64bits((bound(p2, nx) - ox) * ix))
+	a3 := int64(math.Float64bits((bound(p3, nx) - ox) * ix))
+	b0 := int64(math.Float64bits((bound(p, mx)-ox)*fx + 0))
+	b1 := int64(math.Float64bits((bound(p1, mx)-ox)*fx + 0))
+	b2 := int64(math.Float64bits((bound(p2, mx)-ox)*fx + 0))
+	b3 := int64(math.Float64bits((bound(p3, mx)-ox)*fx + 0))
+	a0 = max(a0, int64(math.Float64bits((bound(p, ny)-oy)*iy)))
+	a1 = max(a1, int64(math.Float64bits((bound(p1, ny)-oy)*iy)))
+	a2 = max(a2, int64(math.Float64bits((bound(p2, ny)-oy)*iy)))
+	a3 = max(a3, int64(math.Float64bits((bound(p3, ny)-oy)*iy)))
+	b0 = min(b0, int64(math.Float64bits((bound(p, my)-oy)*fy+0)))
+	b1 = min(b1, int64(math.Float64bits((bound(p1, my)-oy)*fy+0)))
+	b2 = min(b2, int64(math.Float64bits((bound(p2, my)-oy)*fy+0)))
+	b3 = min(b3, int64(math.Float64bits((bound(p3, my)-oy)*fy+0)))
+	a0 = max(a0, int64(math.Float64bits((bound(p, nz)-oz)*iz)), 0)
+	a1 = max(a1, int64(math.Float64bits((bound(p1, nz)-oz)*iz)), 0)
+	a2 = max(a2, int64(math.Float64bits((bound(p2, nz)-oz)*iz)), 0)
+	a3 = max(a3, int64(math.Float64bits((bound(p3, nz)-oz)*iz)), 0)
+	tMaxKey := l.tMaxKey
+	b0 = min(b0, int64(math.Float64bits((bound(p, mz)-oz)*fz+0)), tMaxKey)
+	b1 = min(b1, int64(math.Float64bits((bound(p1, mz)-oz)*fz+0)), tMaxKey)
+	b2 = min(b2, int64(math.Float64bits((bound(p2, mz)-oz)*fz+0)), tMaxKey)
+	b3 = min(b3, int64(math.Float64bits((bound(p3, mz)-oz)*fz+0)), tMaxKey)
+	// A box the ray misses gets key never, so it sorts last.
+	if a0 > b0 {
+		a0 = never
+	}
+	if a1 > b1 {
+		a1 = never
+	}
+	if a2 > b2 {
+		a2 = never
+	}
+	if a3 > b3 {
+		a3 = never
+	}
+	return a0 &^ 3, a1&^3 | 1, a2&^3 | 2, a3&^3 | 3
 }
 
 // step visits one node of the lane's traversal; true when the ray is done.
 //
-// The child test is written for throughput on incoherent rays: the bounds
-// are read at byte offsets fixed per ray (no index checks), and which child
-// comes first, whether the other is pushed and which memory to fetch next
-// are chosen with conditional moves rather than jumps that would mispredict
-// about half the time.
+// The step is written for throughput on incoherent rays: the four child
+// boxes are read at byte offsets fixed per ray (no index checks), sorted by
+// entry distance with a network of min and max (conditional moves, no
+// jumps), and the hit ones pushed farthest first by stores at computed
+// positions, so the only data-dependent jumps are whether any child was
+// hit and whether the node is a leaf.
 func (t *Tree) step(l *lane) bool {
-	n := &t.nodes[l.cur]
-	if n.Count == 0 {
-		pair := unsafe.Pointer(unsafe.SliceData(t.nodes))
-		pair = unsafe.Add(pair, uintptr(n.Offset)*unsafe.Sizeof(treeNode{}))
-		lb, rb := pair, unsafe.Add(pair, unsafe.Sizeof(treeNode{}))
-		// The slab test of both children (Kay & Kajiya 1986; see slab.go),
-		// written out so that the two boxes' loads and compares interleave.
-		ox, oy, oz := l.ox, l.oy, l.oz
-		ix, iy, iz, fx, fy, fz := l.ix, l.iy, l.iz, l.fx, l.fy, l.fz
-		nx, ny, nz, mx, my, mz := l.nx, l.ny, l.nz, l.mx, l.my, l.mz
-		l0 := int64(math.Float64bits((bound(lb, nx) - ox) * ix))
-		r0 := int64(math.Float64bits((bound(rb, nx) - ox) * ix))
-		l1 := int64(math.Float64bits((bound(lb, mx)-ox)*fx + 0))
-		r1 := int64(math.Float64bits((bound(rb, mx)-ox)*fx + 0))
-		if v := int64(math.Float64bits((bound(lb, ny) - oy) * iy)); v > l0 {
-			l0 = v
-		}
-		if v := int64(math.Float64bits((bound(rb, ny) - oy) * iy)); v > r0 {
-			r0 = v
-		}
-		if v := int64(math.Float64bits((bound(lb, my)-oy)*fy + 0)); v < l1 {
-			l1 = v
-		}
-		if v := int64(math.Float64bits((bound(rb, my)-oy)*fy + 0)); v < r1 {
-			r1 = v
-		}
-		if v := int64(math.Float64bits((bound(lb, nz) - oz) * iz)); v > l0 {
-			l0 = v
-		}
-		if v := int64(math.Float64bits((bound(rb, nz) - oz) * iz)); v > r0 {
-			r0 = v
-		}
-		if v := int64(math.Float64bits((bound(lb, mz)-oz)*fz + 0)); v < l1 {
-			l1 = v
-		}
-		if v := int64(math.Float64bits((bound(rb, mz)-oz)*fz + 0)); v < r1 {
-			r1 = v
-		}
-		tMaxKey := l.tMaxKey
-		if l0 < 0 {
-			l0 = 0
-		}
-		if r0 < 0 {
-			r0 = 0
-		}
-		if tMaxKey < l1 {
-			l1 = tMaxKey
-		}
-		if tMaxKey < r1 {
-			r1 = tMaxKey
-		}
-		// A child the ray misses gets entry distance "never", so the
-		// nearer child is the one to visit and the farther is pushed
-		// only if it is met too.
-		if l0 > l1 {
-			l0 = never
-		}
-		if r0 > r1 {
-			r0 = never
-		}
-		near, far, tNear, tFar := n.Offset, n.Offset+1, l0, r0
-		if r0 < l0 {
-			near, far, tNear, tFar = far, near, r0, l0
-		}
-		if tNear != never {
-			// sp < stackSize always (see the package comment); the mask
-			// only spares an index check. The entry counts if sp moves.
-			l.stack[l.sp&(stackSize-1)] = stackEntry{far, tFar}
-			if tFar != never {
-				l.sp++
-			}
-			l.cur = near
-			t.fetchAhead(near)
+	if l.count == 0 {
+		node := unsafe.Add(unsafe.Pointer(unsafe.SliceData(t.nodes)), uintptr(l.cur)*wideSize)
+		k0, k1, k2, k3 := l.enter4(node)
+		// Sort the four keys: a ≤ b ≤ c ≤ d.
+		a, b := min(k0, k1), max(k0, k1)
+		c, d := min(k2, k3), max(k2, k3)
+		a, c = min(a, c), max(a, c)
+		b, d = min(b, d), max(b, d)
+		b, c = min(b, c), max(b, c)
+		if a < slotMiss {
+			w := (*wideNode)(node)
+			hits := 1 + b2i(b < slotMiss) + b2i(c < slotMiss) + b2i(d < slotMiss)
+			// Push d, c, b so that b is on top; a missed one is written
+			// where the next store (or the free top) overwrites it.
+			sp := l.sp
+			l.stack[sp&(stackSize-1)] = stackEntry{w.Child[d&3], int32(w.Count[d&3]), d}
+			sp += b2i(hits == 4)
+			l.stack[sp&(stackSize-1)] = stackEntry{w.Child[c&3], int32(w.Count[c&3]), c}
+			sp += b2i(hits >= 3)
+			l.stack[sp&(stackSize-1)] = stackEntry{w.Child[b&3], int32(w.Count[b&3]), b}
+			l.sp += hits - 1
+			l.cur, l.count = w.Child[a&3], int32(w.Count[a&3])
+			t.fetchAhead(l.cur, l.count)
 			return false
 		}
 	} else {
-		end := n.Offset + int32(n.Count)
-		for i := n.Offset; i < end; i++ {
+		end := l.cur + l.count
+		for i := l.cur; i < end; i++ {
 			tri := &t.tris[i]
 			if tri.id == l.skip {
 				continue
@@ -255,10 +266,20 @@ func (t *Tree) step(l *lane) bool {
 			return true
 		}
 		l.sp--
-		if l.stack[l.sp].t <= l.tMaxKey {
-			l.cur = l.stack[l.sp].node
-			t.fetchAhead(l.cur)
+		e := &l.stack[l.sp&(stackSize-1)]
+		if e.t&^3 <= l.tMaxKey {
+			l.cur, l.count = e.node, e.count
+			t.fetchAhead(l.cur, l.count)
 			return false
 		}
 	}
+}
+
+// b2i is 1 for true and 0 for false (compiled without a jump).
+func b2i(x bool) int {
+	var i int
+	if x {
+		i = 1
+	}
+	return i
 }
