@@ -116,7 +116,11 @@ func Build(v []geometry.Vec3, f [][3]int32, opts Options) *Tree {
 		for i := range b.prims {
 			bounds.grow(&b.prims[i].b)
 		}
-		b.build(&bin, 0, 0, len(b.prims), 1, bounds)
+		if items := b.planeItems(v, f, &bounds); items != nil {
+			b.buildItems(&bin, 0, items, 1)
+		} else {
+			b.build(&bin, 0, 0, len(b.prims), 1, bounds)
+		}
 	}
 	t.nodes = widen(bin)
 	t.gather(v, f, b.prims)

@@ -240,15 +240,19 @@ func TestNoAllocations(t *testing.T) {
 }
 
 func TestParallelBuildMatchesSerial(t *testing.T) {
-	m := mesh.Sphere("s", geometry.Vec3{}, 1, 60, false) // 43,200 facets > parallelSplit
-	a := Build(m.Vertices, m.Facets, Options{Threads: 1})
-	b := Build(m.Vertices, m.Facets, Options{Threads: 4})
-	if len(a.nodes) != len(b.nodes) {
-		t.Fatalf("serial %d nodes, parallel %d", len(a.nodes), len(b.nodes))
-	}
-	for i := range a.nodes {
-		if a.nodes[i] != b.nodes[i] {
-			t.Fatalf("node %d differs: %+v vs %+v", i, a.nodes[i], b.nodes[i])
+	for _, m := range []*mesh.Mesh{
+		mesh.Sphere("s", geometry.Vec3{}, 1, 60, false),                            // 43,200 facets > parallelSplit
+		mesh.Box("", geometry.Box{Max: geometry.Vec3{X: 1, Y: 1, Z: 1}}, 80, true), // six runs of 12,800
+	} {
+		a := Build(m.Vertices, m.Facets, Options{Threads: 1})
+		b := Build(m.Vertices, m.Facets, Options{Threads: 4})
+		if len(a.nodes) != len(b.nodes) {
+			t.Fatalf("serial %d nodes, parallel %d", len(a.nodes), len(b.nodes))
+		}
+		for i := range a.nodes {
+			if a.nodes[i] != b.nodes[i] {
+				t.Fatalf("node %d differs: %+v vs %+v", i, a.nodes[i], b.nodes[i])
+			}
 		}
 	}
 }

@@ -4,7 +4,8 @@
 //
 // # Layout
 //
-// The build makes a binary tree (binned SAH), then widens it: each node of
+// The build makes a binary tree (binned SAH, with a subtree of its own for
+// each long run of coplanar facets: planes.go), then widens it: each node of
 // the tree the traversal reads holds up to four children (widen.go), their
 // float32 boxes stored plane by plane, 128 bytes (two cache lines,
 // unexported: the traversal reads them with unchecked pointer arithmetic).
@@ -26,8 +27,10 @@
 // # Cost
 //
 // Nothing is allocated per ray; traversal uses a fixed stack of 256
-// entries. The binary tree is at most 63 levels deep (32 SAH levels, then
-// median splits, which halve the count of at most 2³¹ triangles), a wide
-// node is at least one binary level below its parent, and a step pushes at
-// most three children: 3·63 + 2 entries (two written above the top) < 256.
+// entries. The binary tree is at most 63 levels deep: the top level over
+// coplanar runs (planes.go) is at most 8 + 13 levels (SAH, then halving at
+// most 4,097 pieces), below it SAH runs to level 32 and median splits then
+// halve the count of at most 2³¹ triangles. A wide node is at least one
+// binary level below its parent and a step pushes at most three children:
+// 3·63 + 2 entries (two written above the top) < 256.
 package bvh
