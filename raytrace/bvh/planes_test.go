@@ -15,13 +15,7 @@ import (
 // is kept exactly once.
 func TestPlaneItems(t *testing.T) {
 	m := mesh.Box("", geometry.Box{Max: geometry.Vec3{X: 2, Y: 1, Z: 1}}, 8, true) // 128 facets a wall
-	rng := rand.New(rand.NewPCG(3, 4))
-	sv, sf := randomSoup(rng, 500, 0.1)
-	k := int32(len(m.Vertices))
-	m.Vertices = append(m.Vertices, sv...)
-	for _, f := range sf {
-		m.Facets = append(m.Facets, [3]int32{f[0] + k, f[1] + k, f[2] + k})
-	}
+	addSoup(m, rand.New(rand.NewPCG(3, 4)), 500, 0.1)
 	b := &builder{}
 	bounds := emptyBox()
 	for i, f := range m.Facets {
@@ -65,17 +59,22 @@ func TestPlaneItems(t *testing.T) {
 	}
 }
 
-// Closest hits in a box cluttered with a soup, whose walls become subtrees
-// of their own, match brute force.
-func TestPlaneRunsAgainstBruteForce(t *testing.T) {
-	m := mesh.Box("", geometry.Box{Max: geometry.Vec3{X: 1, Y: 1, Z: 1}}, 12, true)
-	rng := rand.New(rand.NewPCG(5, 6))
-	sv, sf := randomSoup(rng, 2000, 0.05)
+// addSoup appends n random triangles of size about s (randomSoup) to m.
+func addSoup(m *mesh.Mesh, rng *rand.Rand, n int, s float64) {
+	sv, sf := randomSoup(rng, n, s)
 	k := int32(len(m.Vertices))
 	m.Vertices = append(m.Vertices, sv...)
 	for _, f := range sf {
 		m.Facets = append(m.Facets, [3]int32{f[0] + k, f[1] + k, f[2] + k})
 	}
+}
+
+// Closest hits in a box cluttered with a soup, whose walls become subtrees
+// of their own, match brute force.
+func TestPlaneRunsAgainstBruteForce(t *testing.T) {
+	m := mesh.Box("", geometry.Box{Max: geometry.Vec3{X: 1, Y: 1, Z: 1}}, 12, true)
+	rng := rand.New(rand.NewPCG(5, 6))
+	addSoup(m, rng, 2000, 0.05)
 	roundAll(m.Vertices)
 	tree := Build(m.Vertices, m.Facets, Options{Threads: 2})
 	for range 3000 {
