@@ -116,3 +116,53 @@ func TestEnclosureSteps(t *testing.T) {
 		t.Errorf("%.1f wide steps a ray, want at most 9", per)
 	}
 }
+
+// More coplanar runs than maxRuns: the longest are kept, the rest join the
+// loose facets, and the tree stays shallow enough for the traversal's
+// stack (see the package comment) and exact against brute force.
+func TestManyPlaneRuns(t *testing.T) {
+	const plates, strip = maxRuns + 4, 32 // runs of 64 triangles
+	var v []geometry.Vec3
+	var f [][3]int32
+	for p := range plates {
+		z := float64(p) / plates
+		k := int32(len(v))
+		for i := range strip + 1 {
+			x := float64(i) / strip
+			v = append(v, geometry.Vec3{X: x, Z: z}, geometry.Vec3{X: x, Y: 1, Z: z})
+		}
+		for i := range int32(strip) {
+			a, b, c, d := k+2*i, k+2*i+2, k+2*i+3, k+2*i+1
+			f = append(f, [3]int32{a, b, c}, [3]int32{a, c, d})
+		}
+	}
+	roundAll(v)
+	b := &builder{}
+	bounds := emptyBox()
+	for i, tri := range f {
+		p := prim{b: emptyBox(), id: int32(i)}
+		for _, vi := range tri {
+			x := [3]float32{float32(v[vi].X), float32(v[vi].Y), float32(v[vi].Z)}
+			p.b.add(&x)
+		}
+		b.prims = append(b.prims, p)
+		bounds.grow(&p.b)
+	}
+	if items := b.planeItems(v, f, &bounds); len(items) != maxRuns+1 || items[maxRuns].hi-items[maxRuns].lo != 4*2*strip {
+		t.Fatalf("%d pieces, want %d runs and the loose facets of 4 plates", len(items), maxRuns)
+	}
+	tree := Build(v, f, Options{Threads: 1})
+	if tree.Stats.MaxDepth > 63 {
+		t.Errorf("binary depth %d, the stack allows 63", tree.Stats.MaxDepth)
+	}
+	rng := rand.New(rand.NewPCG(9, 10))
+	for range 100 {
+		o := geometry.Vec3{X: rng.Float64(), Y: rng.Float64(), Z: rng.Float64()}
+		d := geometry.Vec3{X: rng.NormFloat64(), Y: rng.NormFloat64(), Z: rng.NormFloat64()}
+		got := tree.Intersect(o, d, math.Inf(1), -1)
+		want := bruteForce(v, f, o, d, math.Inf(1), -1)
+		if got.Facet != want.Facet && got.T != want.T {
+			t.Fatalf("Intersect(%v, %v) = %+v, brute force %+v", o, d, got, want)
+		}
+	}
+}
