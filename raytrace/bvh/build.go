@@ -142,10 +142,10 @@ func (t *Tree) gather(v []geometry.Vec3, f [][3]int32, prims []prim) {
 	}
 }
 
-// build fills (*nodes)[me] with the subtree over prims[lo:hi]. The two
-// children of an inner node are appended side by side as a pair, so that
-// one 64-byte cache line holds both boxes the traversal tests together;
-// pairs follow each other in depth-first order.
+// build fills (*nodes)[me] with the binary subtree over prims[lo:hi]. The
+// two children of an inner node are appended side by side (Offset and
+// Offset+1), pairs in depth-first order; widen reads this tree once, so its
+// layout does not matter to the traversal.
 //
 // bounds are the bounds of the triangles; the binning pass returns them for
 // both children, so each level reads its triangles once to bin them and once

@@ -241,8 +241,8 @@ func TestNoAllocations(t *testing.T) {
 
 func TestParallelBuildMatchesSerial(t *testing.T) {
 	for _, m := range []*mesh.Mesh{
-		mesh.Sphere("s", geometry.Vec3{}, 1, 60, false),                            // 43,200 facets > parallelSplit
-		mesh.Box("", geometry.Box{Max: geometry.Vec3{X: 1, Y: 1, Z: 1}}, 80, true), // six runs of 12,800
+		mesh.Sphere("s", geometry.Vec3{}, 1, 60, false),                             // 43,200 facets > parallelSplit
+		mesh.Box("", geometry.Box{Max: geometry.Vec3{X: 1, Y: 1, Z: 1}}, 130, true), // six runs of 33,800 > parallelSplit
 	} {
 		a := Build(m.Vertices, m.Facets, Options{Threads: 1})
 		b := Build(m.Vertices, m.Facets, Options{Threads: 4})
