@@ -79,6 +79,10 @@ func (p *prim) centre(k int) float32 { return 0.5 * (p.b.lo[k] + p.b.hi[k]) }
 type builder struct {
 	prims []prim
 	sem   chan struct{} // tokens for extra goroutines
+	// The plane grids made so far (grid.go), handed to the Tree.
+	grids    []planeGrid
+	cells    []int32
+	cellTris []int32
 }
 
 // Build constructs the tree over the triangles (v[f[i][0]], v[f[i][1]],
@@ -123,6 +127,7 @@ func Build(v []geometry.Vec3, f [][3]int32, opts Options) *Tree {
 		}
 	}
 	t.nodes = widen(bin)
+	t.grids, t.cells, t.cellTris = b.grids, b.cells, b.cellTris
 	t.gather(v, f, b.prims)
 	t.Stats.BuildTime = time.Since(start)
 	t.Stats.BuildProcs = threads

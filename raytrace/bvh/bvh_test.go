@@ -163,6 +163,8 @@ func TestWatertightClosedShapes(t *testing.T) {
 	shapes := map[string]*mesh.Mesh{
 		"box":    mesh.Box("", geometry.Box{Min: geometry.Vec3{X: -0.3, Y: 0.1, Z: 2}, Max: geometry.Vec3{X: 1.7, Y: 0.6, Z: 3.5}}, 5, true),
 		"sphere": mesh.Sphere("s", geometry.Vec3{X: 0.25, Y: -3, Z: 1}, 2, 8, true),
+		// walls of 128 facets: plane grids (grid.go)
+		"gridded box": mesh.Box("", geometry.Box{Min: geometry.Vec3{X: -0.3, Y: 0.1, Z: 2}, Max: geometry.Vec3{X: 1.7, Y: 0.6, Z: 3.5}}, 8, true),
 	}
 	for name, m := range shapes {
 		t.Run(name, func(t *testing.T) {

@@ -2,6 +2,7 @@ package bvh
 
 import (
 	"math"
+	"unsafe"
 
 	"github.com/hemiray/hemiray/geometry"
 )
@@ -66,7 +67,12 @@ func RoundVertex(p geometry.Vec3) geometry.Vec3 {
 type Tree struct {
 	nodes []wideNode // the root is nodes[0]
 	tris  []leafTri
-	Stats Stats
+	// Plane grids (grid.go): a slot with Count gridCount holds grid
+	// grids[Child].
+	grids    []planeGrid
+	cells    []int32
+	cellTris []int32
+	Stats    Stats
 }
 
 // Hit is the result of a closest-hit query. A miss has Facet −1.
@@ -82,5 +88,5 @@ var Miss = Hit{T: math.Inf(1), Facet: -1}
 
 // Bytes returns the memory the tree holds, in bytes.
 func (t *Tree) Bytes() int {
-	return len(t.nodes)*wideSize + len(t.tris)*40
+	return len(t.nodes)*wideSize + len(t.tris)*40 + len(t.grids)*int(unsafe.Sizeof(planeGrid{})) + 4*(len(t.cells)+len(t.cellTris))
 }

@@ -33,6 +33,7 @@ type item struct {
 	lo, hi int
 	b      box
 	c      [3]float64 // centre of b
+	grid   int32      // the run's plane grid (grid.go), or −1 for a subtree
 }
 
 // planeItems reorders b.prims so that every long coplanar run is
@@ -92,7 +93,7 @@ func (b *builder) planeItems(v []geometry.Vec3, f [][3]int32, bounds *box) []ite
 	out := make([]prim, 0, len(ps))
 	items := make([]item, 0, len(runs)+1)
 	for _, r := range runs {
-		items = append(items, item{lo: len(out), hi: len(out) + r.hi - r.lo})
+		items = append(items, item{lo: len(out), hi: len(out) + r.hi - r.lo, grid: -1})
 		out = append(out, ps[r.lo:r.hi]...)
 	}
 	loose, next := len(out), 0
@@ -102,11 +103,16 @@ func (b *builder) planeItems(v []geometry.Vec3, f [][3]int32, bounds *box) []ite
 	}
 	out = append(out, ps[next:]...)
 	if loose < len(out) {
-		items = append(items, item{lo: loose, hi: len(out)})
+		items = append(items, item{lo: loose, hi: len(out), grid: -1})
 	}
 	b.prims = out
 	for i := range items {
 		it := &items[i]
+		if i < len(runs) {
+			if k := gridAxis(out[it.lo:it.hi]); k >= 0 {
+				it.grid = b.addGrid(it.lo, it.hi, k)
+			}
+		}
 		it.b = emptyBox()
 		for j := it.lo; j < it.hi; j++ {
 			it.b.grow(&out[j].b)
@@ -128,6 +134,14 @@ func (b *builder) buildItems(nodes *[]treeNode, me int, items []item, depth int)
 		bounds.grow(&items[i].b)
 	}
 	if len(items) == 1 {
+		if g := items[0].grid; g >= 0 {
+			nd := &(*nodes)[me]
+			for k := range 3 {
+				nd.Bounds[k], nd.Bounds[k+3] = bounds.lo[k], bounds.hi[k]
+			}
+			nd.Offset, nd.Count = g, gridCount
+			return
+		}
 		b.build(nodes, me, items[0].lo, items[0].hi, depth, bounds)
 		return
 	}

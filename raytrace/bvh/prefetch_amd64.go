@@ -7,3 +7,9 @@ package bvh
 //
 //go:noescape
 func fetchChild(child, count int32, nodes *wideNode, tris *leafTri)
+
+// fetchTris asks the processor to start loading triangles tris[ks[i]] for
+// i < n (n > 0), the facets of a grid cell.
+//
+//go:noescape
+func fetchTris(ks *int32, n int, tris *leafTri)

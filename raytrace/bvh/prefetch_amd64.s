@@ -24,3 +24,23 @@ TEXT ·fetchChild(SB), NOSPLIT|NOFRAME, $0-24
 	PREFETCHT0 (DI)
 	PREFETCHT0 (R8)
 	RET
+
+// func fetchTris(ks *int32, n int, tris *leafTri)
+//
+// Prefetches the first and last byte of tris[ks[i]] for i < n (n > 0):
+// the facets of a grid cell (40-byte triangles, which may straddle a
+// cache line).
+TEXT ·fetchTris(SB), NOSPLIT|NOFRAME, $0-24
+	MOVQ ks+0(FP), SI
+	MOVQ n+8(FP), CX
+	MOVQ tris+16(FP), BX
+loop:
+	MOVLQSX (SI), AX
+	LEAQ (AX)(AX*4), AX
+	LEAQ (BX)(AX*8), AX
+	PREFETCHT0 (AX)
+	PREFETCHT0 39(AX)
+	ADDQ $4, SI
+	DECQ CX
+	JNZ loop
+	RET

@@ -7,6 +7,7 @@ type Stats struct {
 	Triangles  int
 	Nodes      int // four-wide nodes
 	Leaves     int
+	Grids      int     // coplanar runs located by a plane grid (grid.go), not counted in Leaves
 	MaxDepth   int     // of the binary tree the build makes before widening
 	MaxLeaf    int     // most triangles in one leaf
 	SAHCost    float64 // expected cost per ray, in triangle tests (Aila, Karras & Laine, HPG 2013)
@@ -31,6 +32,11 @@ func (t *Tree) computeStats(bin []treeNode) {
 		a := 0.0
 		if rootArea > 0 {
 			a = nodeArea(n) / rootArea
+		}
+		if n.Count == gridCount {
+			s.Grids++
+			s.SAHCost += a * (costTrav + gridTests*costTri)
+			return
 		}
 		if n.Count > 0 {
 			s.Leaves++

@@ -70,6 +70,10 @@ type Batch struct {
 
 type lane struct {
 	ox, oy, oz, ix, iy, iz, fx, fy, fz float64
+	o3, d3                             [3]float64 // origin and direction, indexed by axis (plane grids)
+	pu, pv, pe                         float64    // a grid visit's crossing point and its slack
+	pg                                 *planeGrid
+	hi                                 int32   // a grid visit's end of the cell's list
 	nx, ny, nz, mx, my, mz             uintptr // byte offsets of the slab planes in a treeNode
 	sh                                 geometry.Shear
 	tMax                               float64
@@ -188,21 +192,25 @@ func (t *Tree) step(l *lane) bool {
 			t.fetchAhead(l.cur, l.count)
 			return false
 		}
+	} else if l.count == gridCount {
+		if t.enterGrid(l, l.cur) {
+			return true
+		}
+		if l.count != 0 {
+			return false
+		}
+	} else if l.count < 0 {
+		if t.gridStep(l) {
+			return true
+		}
+		if l.count != 0 {
+			return false
+		}
 	} else {
 		end := l.cur + l.count
 		for i := l.cur; i < end; i++ {
-			tri := &t.tris[i]
-			if tri.id == l.skip {
-				continue
-			}
-			a, b, c := tri.vertex(0), tri.vertex(1), tri.vertex(2)
-			th, b1, b2, front, ok := l.sh.Triangle(&a, &b, &c, l.tMax)
-			if ok {
-				l.tMax, l.tMaxKey = th, orderKey(th)
-				l.hit = Hit{T: th, B1: b1, B2: b2, Facet: tri.id, Front: front}
-				if l.anyHit {
-					return true
-				}
+			if l.hitTri(&t.tris[i]) {
+				return true
 			}
 		}
 	}
@@ -218,6 +226,22 @@ func (t *Tree) step(l *lane) bool {
 			return false
 		}
 	}
+}
+
+// hitTri tests the lane's ray against tri (unless it is the facet to skip)
+// and keeps a closer hit; true when an any-hit query is answered.
+func (l *lane) hitTri(tri *leafTri) bool {
+	if tri.id == l.skip {
+		return false
+	}
+	a, b, c := tri.vertex(0), tri.vertex(1), tri.vertex(2)
+	th, b1, b2, front, ok := l.sh.Triangle(&a, &b, &c, l.tMax)
+	if !ok {
+		return false
+	}
+	l.tMax, l.tMaxKey = th, orderKey(th)
+	l.hit = Hit{T: th, B1: b1, B2: b2, Facet: tri.id, Front: front}
+	return l.anyHit
 }
 
 // b2i is 1 for true and 0 for false (compiled without a jump).
