@@ -25,7 +25,8 @@ func ConcentricDisk(u1, u2 float64) (x, y float64) {
 	} else {
 		r, phi = b, math.Pi/2-math.Pi/4*(a/b)
 	}
-	return r * math.Cos(phi), r * math.Sin(phi)
+	sin, cos := sinCos(phi)
+	return r * cos, r * sin
 }
 
 // InvertConcentricDisk is the inverse of ConcentricDisk.
