@@ -1,7 +1,9 @@
 package bvh
 
 import (
+	"cmp"
 	"math"
+	"slices"
 	"unsafe"
 
 	"github.com/hemiray/hemiray/raytrace/internal/prefetch"
@@ -168,6 +170,21 @@ func (b *builder) addGrid(lo, hi, k int) int32 {
 			}
 		}
 	}
+	// Most overlapped first: a cell's own facets come before those that
+	// only reach into it, and the visit stops at the first hit.
+	cellArea := func(p *prim, c int) float64 {
+		i, j := c%int(g.nu), c/int(g.nu)
+		ulo, vlo := g.u0+float64(i)/g.su, g.v0+float64(j)/g.sv
+		du := min(float64(p.b.hi[u]), ulo+1/g.su) - max(float64(p.b.lo[u]), ulo)
+		dv := min(float64(p.b.hi[v]), vlo+1/g.sv) - max(float64(p.b.lo[v]), vlo)
+		return max(du, 0) * max(dv, 0)
+	}
+	for c := range ncell {
+		list := b.cellTris[starts[c]:starts[c+1]]
+		slices.SortStableFunc(list, func(x, y int32) int {
+			return cmp.Compare(cellArea(&b.prims[y], c), cellArea(&b.prims[x], c))
+		})
+	}
 	b.cells = append(b.cells, starts...)
 	b.grids = append(b.grids, g)
 	return int32(len(b.grids) - 1)
@@ -263,8 +280,15 @@ func (t *Tree) testCell(l *lane, lo, hi int32) bool {
 		if !mayContain(pu, pv, au, av, bu, bv, cu, cv, e) {
 			continue
 		}
+		before := l.tMax
 		if l.hitTri(tri) {
 			return true
+		}
+		if l.tMax < before {
+			// The others lie in the same plane: they can only be hit at
+			// the same distance (a shared edge or corner), give or take
+			// rounding, and then either facet is as right.
+			return false
 		}
 	}
 	return false
