@@ -5,7 +5,9 @@
 // # Layout
 //
 // The build makes a binary tree (binned SAH, with a subtree of its own for
-// each long run of coplanar facets: planes.go), then widens it: each node of
+// each long run of coplanar facets: planes.go, or, where the run lies
+// exactly in an axis-aligned plane, a 2-D grid over that plane that a ray
+// looks up where it crosses it: grid.go), then widens it: each node of
 // the tree the traversal reads holds up to four children (widen.go), their
 // float32 boxes stored plane by plane, 128 bytes (two cache lines,
 // unexported: the traversal reads them with unchecked pointer arithmetic).

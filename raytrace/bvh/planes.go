@@ -15,8 +15,9 @@ import (
 // (CAD exporters write a face's facets together), builds each long run as
 // a subtree of its own, and joins the runs and the remaining facets by SAH
 // over their boxes. On the bench's closed box this cut the wide steps a ray
-// takes from 11.6 to 8.0. A model with no long runs (a sphere, a soup)
-// builds exactly as before.
+// takes from 11.6 to 8.0 (and a run lying exactly in an axis-aligned plane
+// now gets a plane grid instead: grid.go). A model with no long runs (a
+// sphere, a soup) builds exactly as before.
 
 // Plane-run parameters (common practice: tolerances relative to the
 // model's size, so units do not matter).
