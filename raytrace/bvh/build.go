@@ -95,19 +95,27 @@ func Build(v []geometry.Vec3, f [][3]int32, opts Options) *Tree {
 		threads = runtime.GOMAXPROCS(0)
 	}
 	b := &builder{prims: make([]prim, 0, len(f)), sem: make(chan struct{}, threads-1)}
-	for i, t := range f {
-		p := prim{b: emptyBox(), id: int32(i)}
-		finite := true
-		for _, vi := range t {
-			x := [3]float32{float32(v[vi].X), float32(v[vi].Y), float32(v[vi].Z)}
-			for k := range 3 {
-				finite = finite && !math.IsNaN(float64(x[k])) && !math.IsInf(float64(x[k]), 0)
+	// Each vertex is rounded once (a welded mesh has half as many vertices
+	// as facets, a sixth of their corners); a non-finite one is marked by
+	// a NaN first coordinate.
+	v32 := make([][3]float32, len(v))
+	for i, p := range v {
+		x := [3]float32{float32(p.X), float32(p.Y), float32(p.Z)}
+		for k := range 3 {
+			if math.IsNaN(float64(x[k])) || math.IsInf(float64(x[k]), 0) {
+				x[0] = float32(math.NaN())
 			}
-			p.b.add(&x)
 		}
-		if !finite {
+		v32[i] = x
+	}
+	for i, t := range f {
+		a, c, e := &v32[t[0]], &v32[t[1]], &v32[t[2]]
+		if a[0] != a[0] || c[0] != c[0] || e[0] != e[0] {
 			continue
 		}
+		p := prim{b: box{lo: *a, hi: *a}, id: int32(i)}
+		p.b.add(c)
+		p.b.add(e)
 		b.prims = append(b.prims, p)
 	}
 	t := &Tree{}
@@ -128,7 +136,7 @@ func Build(v []geometry.Vec3, f [][3]int32, opts Options) *Tree {
 	}
 	t.nodes = widen(bin)
 	t.grids, t.cells, t.cellTris = b.grids, b.cells, b.cellTris
-	t.gather(v, f, b.prims)
+	t.gather(v32, f, b.prims)
 	t.Stats.BuildTime = time.Since(start)
 	t.Stats.BuildProcs = threads
 	t.computeStats(bin)
@@ -136,12 +144,13 @@ func Build(v []geometry.Vec3, f [][3]int32, opts Options) *Tree {
 }
 
 // gather stores the triangles in leaf order with their rounded vertices.
-func (t *Tree) gather(v []geometry.Vec3, f [][3]int32, prims []prim) {
+func (t *Tree) gather(v32 [][3]float32, f [][3]int32, prims []prim) {
 	t.tris = make([]leafTri, len(prims))
 	for i, p := range prims {
 		r := leafTri{id: p.id}
 		for k, vi := range f[p.id] {
-			r.v[3*k], r.v[3*k+1], r.v[3*k+2] = float32(v[vi].X), float32(v[vi].Y), float32(v[vi].Z)
+			x := &v32[vi]
+			r.v[3*k], r.v[3*k+1], r.v[3*k+2] = x[0], x[1], x[2]
 		}
 		t.tris[i] = r
 	}
@@ -317,15 +326,22 @@ func (b *builder) sahSplit(ps []prim, bounds *box, cmin, extent float64, axis, n
 			sd.rb.grow(&boxes[k])
 		}
 	}
-	// Partition in place: bins below bestK to the left.
+	// Partition in place, bins below bestK to the left, swapping only
+	// pairs that are both on the wrong side (Hoare's scheme).
+	left := func(p *prim) bool { return int((float64(p.centre(axis))-cmin)*scale) < bestK }
 	i, j := 0, n-1
-	for i <= j {
-		k := int((float64(ps[i].centre(axis)) - cmin) * scale)
-		if k < bestK {
+	for {
+		for i <= j && left(&ps[i]) {
 			i++
-			continue
+		}
+		for i <= j && !left(&ps[j]) {
+			j--
+		}
+		if i >= j {
+			break
 		}
 		ps[i], ps[j] = ps[j], ps[i]
+		i++
 		j--
 	}
 	return i, sd

@@ -117,6 +117,13 @@ func TestEmptyAndDegenerate(t *testing.T) {
 			t.Errorf("degenerate triangles hit by %v: %+v", d, h)
 		}
 	}
+	// A vertex that is not finite as a float32 (NaN in y, or beyond the
+	// float32 range in z) leaves its facets out; the others stay.
+	v = []geometry.Vec3{{}, {X: 1}, {Y: 1}, {X: 1, Y: math.NaN()}, {Y: 1, Z: 1e39}}
+	f = [][3]int32{{0, 1, 2}, {0, 3, 2}, {0, 1, 4}}
+	if tree = Build(v, f, Options{}); tree.Stats.Triangles != 1 {
+		t.Errorf("%d triangles kept, want the 1 finite one", tree.Stats.Triangles)
+	}
 	// Many identical triangles (all centroids equal) still make small leaves.
 	v = []geometry.Vec3{{}, {X: 1}, {Y: 1}}
 	f = make([][3]int32, 1000)
