@@ -80,21 +80,28 @@ type builder struct {
 	prims []prim
 	sem   chan struct{} // tokens for extra goroutines
 	// The plane grids made so far (grid.go), handed to the Tree.
-	grids    []planeGrid
-	cells    []int32
-	cellTris []int32
+	grids      []planeGrid
+	cells      []int32
+	cellTris   []int32
+	noClusters bool // build large nodes by binned SAH too (cluster.go)
 }
 
 // Build constructs the tree over the triangles (v[f[i][0]], v[f[i][1]],
 // v[f[i][2]]); facet i gets id i. Degenerate triangles are kept (they are
 // never hit), and triangles with non-finite coordinates are left out.
 func Build(v []geometry.Vec3, f [][3]int32, opts Options) *Tree {
+	return buildTree(v, f, opts, false)
+}
+
+// buildTree is Build, with the cluster build of large nodes turned off if
+// noClusters (for tests that compare the two).
+func buildTree(v []geometry.Vec3, f [][3]int32, opts Options, noClusters bool) *Tree {
 	start := time.Now()
 	threads := opts.Threads
 	if threads <= 0 {
 		threads = runtime.GOMAXPROCS(0)
 	}
-	b := &builder{prims: make([]prim, 0, len(f)), sem: make(chan struct{}, threads-1)}
+	b := &builder{prims: make([]prim, 0, len(f)), sem: make(chan struct{}, threads-1), noClusters: noClusters}
 	// Each vertex is rounded once (a welded mesh has half as many vertices
 	// as facets, a sixth of their corners); a non-finite one is marked by
 	// a NaN first coordinate.
@@ -176,6 +183,9 @@ func (b *builder) build(nodes *[]treeNode, me, lo, hi, depth int, bounds box) {
 		nd.Offset, nd.Count = int32(lo), 1
 		return
 	}
+	if n > clusterMin && depth < clusterMaxDepth && !b.noClusters && b.buildClustered(nodes, me, lo, hi, depth, bounds) {
+		return
+	}
 	axis := 0
 	for k := 1; k < 3; k++ {
 		if bounds.hi[k]-bounds.lo[k] > bounds.hi[axis]-bounds.lo[axis] {
@@ -209,42 +219,44 @@ func (b *builder) build(nodes *[]treeNode, me, lo, hi, depth int, bounds box) {
 	nd.Offset = int32(base)
 	*nodes = append(*nodes, treeNode{}, treeNode{})
 
-	if n > parallelSplit && b.buildParallel(nodes, base, lo, mid, hi, depth, &split) {
+	if n > parallelSplit && b.buildParallel(nodes, base, hi-lo-mid,
+		func(ns *[]treeNode, at int) { b.build(ns, at, lo, lo+mid, depth+1, split.lb) },
+		func(ns *[]treeNode, at int) { b.build(ns, at, lo+mid, hi, depth+1, split.rb) }) {
 		return
 	}
 	b.build(nodes, base, lo, lo+mid, depth+1, split.lb)
 	b.build(nodes, base+1, lo+mid, hi, depth+1, split.rb)
 }
 
-// buildParallel builds the right child on another goroutine when a token
-// is free, the left one on this goroutine, and splices the right subtree
-// (its root at 0, its pairs from 1) in after the left one. It reports
-// whether it did the work.
-func (b *builder) buildParallel(nodes *[]treeNode, base, lo, mid, hi, depth int, split *sides) bool {
+// buildParallel builds a pair of children, the right one (of nRight
+// triangles) on another goroutine when a token is free and the left one on
+// this goroutine, and splices the right subtree (its root at 0, its pairs
+// from 1) in after the left one, so the tree is the one a single thread
+// builds. It reports whether it did the work.
+func (b *builder) buildParallel(nodes *[]treeNode, base, nRight int, left, right func(nodes *[]treeNode, me int)) bool {
 	select {
 	case b.sem <- struct{}{}:
 	default:
 		return false
 	}
-	right := make([]treeNode, 1, 2*(hi-lo-mid)/3+2)
-	rb := split.rb
+	sub := make([]treeNode, 1, 2*nRight/3+2)
 	var wg sync.WaitGroup
 	wg.Add(1)
 	go func() {
 		defer wg.Done()
-		b.build(&right, 0, lo+mid, hi, depth+1, rb)
+		right(&sub, 0)
 		<-b.sem
 	}()
-	b.build(nodes, base, lo, lo+mid, depth+1, split.lb)
+	left(nodes, base)
 	wg.Wait()
 	shift := int32(len(*nodes) - 1)
-	for i := range right {
-		if right[i].Count == 0 {
-			right[i].Offset += shift
+	for i := range sub {
+		if sub[i].Count == 0 {
+			sub[i].Offset += shift
 		}
 	}
-	(*nodes)[base+1] = right[0]
-	*nodes = append(*nodes, right[1:]...)
+	(*nodes)[base+1] = sub[0]
+	*nodes = append(*nodes, sub[1:]...)
 	return true
 }
 
@@ -284,17 +296,20 @@ func (b *builder) sahSplit(ps []prim, bounds *box, cmin, extent float64, axis, n
 		counts[k]++
 		boxes[k].grow(&ps[i].b)
 	}
-	// Backward sweep: area·count of everything right of each plane.
+	// Backward sweep: area·count of everything right of each plane, and
+	// its box.
 	var rightCost [numBins]float64
-	acc, cnt := emptyBox(), 0
+	var rightBox [numBins]box
+	acc, cnt := empty, 0
 	for k := bins - 1; k > 0; k-- {
 		acc.grow(&boxes[k])
 		cnt += counts[k]
-		rightCost[k] = acc.area() * float64(cnt)
+		rightCost[k], rightBox[k] = acc.area()*float64(cnt), acc
 	}
 	// Forward sweep: add the left side and keep the cheapest plane.
 	best, bestK := math.Inf(1), -1
-	acc, cnt = emptyBox(), 0
+	var sd sides
+	acc, cnt = empty, 0
 	for k := 1; k < bins; k++ {
 		acc.grow(&boxes[k-1])
 		cnt += counts[k-1]
@@ -302,7 +317,7 @@ func (b *builder) sahSplit(ps []prim, bounds *box, cmin, extent float64, axis, n
 			continue
 		}
 		if c := acc.area()*float64(cnt) + rightCost[k]; c < best {
-			best, bestK = c, k
+			best, bestK, sd.lb = c, k, acc
 		}
 	}
 	if bestK < 0 {
@@ -318,14 +333,7 @@ func (b *builder) sahSplit(ps []prim, bounds *box, cmin, extent float64, axis, n
 	if n <= maxLeafSize && costTri*float64(n) <= splitCost {
 		return 0, sides{}
 	}
-	sd := sides{emptyBox(), emptyBox()}
-	for k := range bins {
-		if k < bestK {
-			sd.lb.grow(&boxes[k])
-		} else {
-			sd.rb.grow(&boxes[k])
-		}
-	}
+	sd.rb = rightBox[bestK]
 	// Partition in place, bins below bestK to the left, swapping only
 	// pairs that are both on the wrong side (Hoare's scheme).
 	left := func(p *prim) bool { return int((float64(p.centre(axis))-cmin)*scale) < bestK }

@@ -249,9 +249,13 @@ func TestNoAllocations(t *testing.T) {
 }
 
 func TestParallelBuildMatchesSerial(t *testing.T) {
+	same := &mesh.Mesh{Vertices: []geometry.Vec3{{}, {X: 1}, {Y: 1}}} // one centroid: halved by count
+	for range 2*parallelSplit + 100 {
+		same.Facets = append(same.Facets, [3]int32{0, 1, 2})
+	}
 	for _, m := range []*mesh.Mesh{
-		mesh.Sphere("s", geometry.Vec3{}, 1, 60, false),                             // 43,200 facets > parallelSplit
-		mesh.Box("", geometry.Box{Max: geometry.Vec3{X: 1, Y: 1, Z: 1}}, 130, true), // six runs of 33,800 > parallelSplit
+		mesh.Sphere("s", geometry.Vec3{}, 1, 92, false), // 101,568 facets: clusters, > parallelSplit a side
+		same,
 	} {
 		a := Build(m.Vertices, m.Facets, Options{Threads: 1})
 		b := Build(m.Vertices, m.Facets, Options{Threads: 4})

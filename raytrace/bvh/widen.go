@@ -15,18 +15,53 @@ func widen(bin []treeNode) []wideNode {
 	if len(bin) == 0 {
 		return nil
 	}
-	// Each wide node consumes at least one binary inner node.
-	nodes := make([]wideNode, 1, len(bin)/2+1)
 	if bin[0].Count > 0 { // the whole tree is one leaf
-		nodes[0] = emptyWide()
+		nodes := []wideNode{emptyWide()}
 		setSlot(&nodes[0], 0, &bin[0], 0)
 		return nodes
 	}
+	// Counted first, so that the array is allocated once at its size
+	// (reserving for the worst case, one wide node per binary inner node,
+	// and copying down cost a tenth of a million-facet build).
+	nodes := make([]wideNode, 1, countWide(bin, 0))
 	fillWide(&nodes, 0, bin, 0)
-	if cap(nodes) > len(nodes)+len(nodes)/4 {
-		nodes = append([]wideNode(nil), nodes...) // give back the spare capacity
-	}
 	return nodes
+}
+
+// wideKids returns the children a wide node made from binary inner node bi
+// takes: its two children, then, while fewer than four, the inner child of
+// largest area replaced by its two.
+func wideKids(bin []treeNode, bi int32) (kids [4]int32, n int) {
+	kids[0], kids[1] = bin[bi].Offset, bin[bi].Offset+1
+	n = 2
+	for n < 4 {
+		best, bestArea := -1, -1.0
+		for j := range n {
+			if k := &bin[kids[j]]; k.Count == 0 && nodeArea(k) > bestArea {
+				best, bestArea = j, nodeArea(k)
+			}
+		}
+		if best < 0 {
+			break
+		}
+		c := kids[best]
+		kids[best], kids[n] = bin[c].Offset, bin[c].Offset+1
+		n++
+	}
+	return kids, n
+}
+
+// countWide returns how many wide nodes the subtree from binary inner node
+// bi becomes.
+func countWide(bin []treeNode, bi int32) int {
+	kids, n := wideKids(bin, bi)
+	count := 1
+	for _, k := range kids[:n] {
+		if bin[k].Count == 0 {
+			count += countWide(bin, k)
+		}
+	}
+	return count
 }
 
 // emptyWide returns a wide node with every slot empty.
@@ -60,22 +95,7 @@ func setSlot(w *wideNode, c int, b *treeNode, child int32) {
 // fillWide fills (*nodes)[me] from binary inner node bi, appending wide
 // nodes for its inner children side by side, then filling them.
 func fillWide(nodes *[]wideNode, me int, bin []treeNode, bi int32) {
-	kids := [4]int32{bin[bi].Offset, bin[bi].Offset + 1}
-	n := 2
-	for n < 4 {
-		best, bestArea := -1, -1.0
-		for j := range n {
-			if k := &bin[kids[j]]; k.Count == 0 && nodeArea(k) > bestArea {
-				best, bestArea = j, nodeArea(k)
-			}
-		}
-		if best < 0 {
-			break
-		}
-		c := kids[best]
-		kids[best], kids[n] = bin[c].Offset, bin[c].Offset+1
-		n++
-	}
+	kids, n := wideKids(bin, bi)
 	w := emptyWide()
 	var inner [4]int32
 	for j := range n {
