@@ -284,6 +284,9 @@ func (b *builder) sahSplit(ps []prim, bounds *box, cmin, extent float64, axis, n
 	// No more bins than triangles: near the leaves most nodes hold a few,
 	// and sweeping twelve bins for them was most of the build's time.
 	bins := min(numBins, n)
+	if n == 2 {
+		return splitPair(ps, bounds, cmin, float64(bins)*(1-1e-6)/extent, axis)
+	}
 	var counts [numBins]int
 	var boxes [numBins]box
 	for i := range bins {
@@ -353,6 +356,29 @@ func (b *builder) sahSplit(ps []prim, bounds *box, cmin, extent float64, axis, n
 		j--
 	}
 	return i, sd
+}
+
+// splitPair is sahSplit for two triangles, the same decision without the
+// bins (a third of the nodes): split them when their centroids fall in
+// different halves of the node and two boxes cost less than one leaf of
+// two, the lower one first.
+func splitPair(ps []prim, bounds *box, cmin, scale float64, axis int) (int, sides) {
+	k0 := min(max(int((float64(ps[0].centre(axis))-cmin)*scale), 0), 1)
+	k1 := min(max(int((float64(ps[1].centre(axis))-cmin)*scale), 0), 1)
+	if k0 == k1 {
+		return -1, sides{}
+	}
+	splitCost := costTrav + costTri*2 // a point-sized node: splitting cannot help
+	if pa := bounds.area(); pa > 0 {
+		splitCost = costTrav + costTri*(ps[0].b.area()+ps[1].b.area())/pa
+	}
+	if 2*costTri <= splitCost {
+		return 0, sides{}
+	}
+	if k0 > k1 {
+		ps[0], ps[1] = ps[1], ps[0]
+	}
+	return 1, sides{ps[0].b, ps[1].b}
 }
 
 // nthElement reorders ps so that ps[m] has the centroid it would have if

@@ -32,13 +32,22 @@ func widen(bin []treeNode) []wideNode {
 // takes: its two children, then, while fewer than four, the inner child of
 // largest area replaced by its two.
 func wideKids(bin []treeNode, bi int32) (kids [4]int32, n int) {
+	// innerArea is a child's area, or −1 for a leaf (never expanded).
+	innerArea := func(k int32) float64 {
+		if bin[k].Count > 0 {
+			return -1
+		}
+		return nodeArea(&bin[k])
+	}
+	var area [4]float64
 	kids[0], kids[1] = bin[bi].Offset, bin[bi].Offset+1
+	area[0], area[1] = innerArea(kids[0]), innerArea(kids[1])
 	n = 2
 	for n < 4 {
 		best, bestArea := -1, -1.0
 		for j := range n {
-			if k := &bin[kids[j]]; k.Count == 0 && nodeArea(k) > bestArea {
-				best, bestArea = j, nodeArea(k)
+			if area[j] > bestArea {
+				best, bestArea = j, area[j]
 			}
 		}
 		if best < 0 {
@@ -46,6 +55,7 @@ func wideKids(bin []treeNode, bi int32) (kids [4]int32, n int) {
 		}
 		c := kids[best]
 		kids[best], kids[n] = bin[c].Offset, bin[c].Offset+1
+		area[best], area[n] = innerArea(kids[best]), innerArea(kids[n])
 		n++
 	}
 	return kids, n
