@@ -299,30 +299,7 @@ func (b *builder) sahSplit(ps []prim, bounds *box, cmin, extent float64, axis, n
 		counts[k]++
 		boxes[k].grow(&ps[i].b)
 	}
-	// Backward sweep: area·count of everything right of each plane, and
-	// its box.
-	var rightCost [numBins]float64
-	var rightBox [numBins]box
-	acc, cnt := empty, 0
-	for k := bins - 1; k > 0; k-- {
-		acc.grow(&boxes[k])
-		cnt += counts[k]
-		rightCost[k], rightBox[k] = acc.area()*float64(cnt), acc
-	}
-	// Forward sweep: add the left side and keep the cheapest plane.
-	best, bestK := math.Inf(1), -1
-	var sd sides
-	acc, cnt = empty, 0
-	for k := 1; k < bins; k++ {
-		acc.grow(&boxes[k-1])
-		cnt += counts[k-1]
-		if cnt == 0 || cnt == n {
-			continue
-		}
-		if c := acc.area()*float64(cnt) + rightCost[k]; c < best {
-			best, bestK, sd.lb = c, k, acc
-		}
-	}
+	best, bestK, sd := sweepBins(&boxes, &counts, bins, n)
 	if bestK < 0 {
 		return -1, sides{}
 	}
@@ -336,7 +313,6 @@ func (b *builder) sahSplit(ps []prim, bounds *box, cmin, extent float64, axis, n
 	if n <= maxLeafSize && costTri*float64(n) <= splitCost {
 		return 0, sides{}
 	}
-	sd.rb = rightBox[bestK]
 	// Partition in place, bins below bestK to the left, swapping only
 	// pairs that are both on the wrong side (Hoare's scheme).
 	left := func(p *prim) bool { return int((float64(p.centre(axis))-cmin)*scale) < bestK }
@@ -379,6 +355,40 @@ func splitPair(ps []prim, bounds *box, cmin, scale float64, axis int) (int, side
 		ps[0], ps[1] = ps[1], ps[0]
 	}
 	return 1, sides{ps[0].b, ps[1].b}
+}
+
+// sweepBins finds the cheapest plane between the first bins of boxes
+// (holding counts triangles, n in all): its SAH cost (area × triangles of
+// both sides), its index (bins below it go left; −1 when no plane has
+// triangles on both sides) and both sides' bounds.
+func sweepBins(boxes *[numBins]box, counts *[numBins]int, bins, n int) (best float64, bestK int, sd sides) {
+	// Backward sweep: area·count of everything right of each plane, and
+	// its box.
+	var rightCost [numBins]float64
+	var rightBox [numBins]box
+	acc, cnt := empty, 0
+	for k := bins - 1; k > 0; k-- {
+		acc.grow(&boxes[k])
+		cnt += counts[k]
+		rightCost[k], rightBox[k] = acc.area()*float64(cnt), acc
+	}
+	// Forward sweep: add the left side and keep the cheapest plane.
+	best, bestK = math.Inf(1), -1
+	acc, cnt = empty, 0
+	for k := 1; k < bins; k++ {
+		acc.grow(&boxes[k-1])
+		cnt += counts[k-1]
+		if cnt == 0 || cnt == n {
+			continue
+		}
+		if c := acc.area()*float64(cnt) + rightCost[k]; c < best {
+			best, bestK, sd.lb = c, k, acc
+		}
+	}
+	if bestK >= 0 {
+		sd.rb = rightBox[bestK]
+	}
+	return best, bestK, sd
 }
 
 // nthElement reorders ps so that ps[m] has the centroid it would have if

@@ -52,6 +52,20 @@ func randomSoup(rng *rand.Rand, n int, s float64) ([]geometry.Vec3, [][3]int32) 
 	return v, f
 }
 
+// sameHit fails the test unless the tree's closest hit of the ray is
+// brute force's: the same facet, or, where two facets share the hit point
+// (an edge, or a plate's edge on a wall), a distance equal up to rounding.
+// It returns brute force's hit.
+func sameHit(t *testing.T, tree *Tree, v []geometry.Vec3, f [][3]int32, o, d geometry.Vec3, tMax float64, skip int32) Hit {
+	t.Helper()
+	got := tree.Intersect(o, d, tMax, skip)
+	want := bruteForce(v, f, o, d, tMax, skip)
+	if got.Facet != want.Facet && math.Abs(got.T-want.T) > 1e-15*want.T {
+		t.Fatalf("Intersect(%v, %v, %v, %d) = %+v, brute force %+v", o, d, tMax, skip, got, want)
+	}
+	return want
+}
+
 func bruteForce(v []geometry.Vec3, f [][3]int32, o, d geometry.Vec3, tMax float64, skip int32) Hit {
 	best := Miss
 	sh := geometry.NewShear(o, d)

@@ -158,21 +158,22 @@ func (b *builder) buildClusters(nodes *[]treeNode, me int, items []item, depth i
 	for k := range 3 {
 		nd.Bounds[k], nd.Bounds[k+3] = bounds.lo[k], bounds.hi[k]
 	}
-	mid, axis, lb, rb := -1, 0, empty, empty
+	mid, axis, sd := -1, 0, sides{}
 	if depth < clusterMaxDepth {
-		mid, axis, lb, rb = sahItems(items)
+		mid, axis, sd = sahItems(items)
 	}
 	if mid <= 0 || mid >= len(items) {
 		mid = len(items) / 2
-		lb, rb = empty, empty
+		sd = sides{empty, empty}
 		for i := range items {
 			if i < mid {
-				lb.grow(&items[i].b)
+				sd.lb.grow(&items[i].b)
 			} else {
-				rb.grow(&items[i].b)
+				sd.rb.grow(&items[i].b)
 			}
 		}
 	}
+	lb, rb := sd.lb, sd.rb
 	nd.Axis = uint8(axis)
 	base := len(*nodes)
 	nd.Offset = int32(base)
@@ -195,7 +196,7 @@ func (b *builder) buildClusters(nodes *[]treeNode, me int, items []item, depth i
 // axis where the centres spread most (12 bins, cost area × triangles) and
 // partitions them in place. It returns the size of the left part (−1 when
 // all centres coincide), the axis, and both parts' bounds.
-func sahItems(items []item) (mid, axis int, lb, rb box) {
+func sahItems(items []item) (mid, axis int, sd sides) {
 	lo, hi := [3]float64{math.Inf(1), math.Inf(1), math.Inf(1)}, [3]float64{math.Inf(-1), math.Inf(-1), math.Inf(-1)}
 	for i := range items {
 		for k := range 3 {
@@ -209,7 +210,7 @@ func sahItems(items []item) (mid, axis int, lb, rb box) {
 	}
 	extent := hi[axis] - lo[axis]
 	if !(extent > 0) {
-		return -1, axis, empty, empty
+		return -1, axis, sides{}
 	}
 	bins := min(numBins, len(items))
 	scale := float64(bins) * (1 - 1e-6) / extent
@@ -226,27 +227,10 @@ func sahItems(items []item) (mid, axis int, lb, rb box) {
 		total += items[i].hi - items[i].lo
 		boxes[k].grow(&items[i].b)
 	}
-	var rightCost [numBins]float64
-	var rightBox [numBins]box
-	acc, cnt := empty, 0
-	for k := bins - 1; k > 0; k-- {
-		acc.grow(&boxes[k])
-		cnt += counts[k]
-		rightCost[k], rightBox[k] = acc.area()*float64(cnt), acc
-	}
-	best, bestK := math.Inf(1), -1
-	acc, cnt = empty, 0
-	for k := 1; k < bins; k++ {
-		acc.grow(&boxes[k-1])
-		cnt += counts[k-1]
-		if c := acc.area()*float64(cnt) + rightCost[k]; cnt > 0 && cnt < total && c < best {
-			best, bestK, lb = c, k, acc
-		}
-	}
+	_, bestK, sd := sweepBins(&boxes, &counts, bins, total)
 	if bestK < 0 {
-		return -1, axis, empty, empty
+		return -1, axis, sides{}
 	}
-	rb = rightBox[bestK]
 	i, j := 0, len(items)-1
 	for {
 		for i <= j && binOf(&items[i]) < bestK {
@@ -262,5 +246,5 @@ func sahItems(items []item) (mid, axis int, lb, rb box) {
 		i++
 		j--
 	}
-	return i, axis, lb, rb
+	return i, axis, sd
 }

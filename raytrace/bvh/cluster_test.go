@@ -90,11 +90,7 @@ func TestClusteredAgainstBruteForce(t *testing.T) {
 		if r%4 == 0 { // at the heap
 			d = geometry.Vec3{X: 0.5, Y: 0.5, Z: 0.5}.Sub(o)
 		}
-		got := tree.Intersect(o, d, math.Inf(1), -1)
-		want := bruteForce(v, f, o, d, math.Inf(1), -1)
-		if got.Facet != want.Facet && math.Abs(got.T-want.T) > 1e-15*want.T {
-			t.Fatalf("ray %d: Intersect(%v, %v) = %+v, brute force %+v", r, o, d, got, want)
-		}
+		sameHit(t, tree, v, f, o, d, math.Inf(1), -1)
 	}
 }
 

@@ -132,14 +132,7 @@ func TestGridAgainstBruteForce(t *testing.T) {
 					tMax = rng.Float64() * tc.scale
 				}
 				qs = append(qs, Query{O: o, D: d, TMax: tMax, Skip: skip})
-				got := tree.Intersect(o, d, tMax, skip)
-				want := bruteForce(m.Vertices, m.Facets, o, d, tMax, skip)
-				// Two facets can share the hit point (a plate's edge on a
-				// wall); then their distances may differ in the last place
-				// and which is found first decides.
-				if got.Facet != want.Facet && math.Abs(got.T-want.T) > 1e-15*want.T {
-					t.Fatalf("ray %d: Intersect(%v, %v) = %+v, brute force %+v", r, o, d, got, want)
-				}
+				want := sameHit(t, tree, m.Vertices, m.Facets, o, d, tMax, skip)
 				if occ := tree.Occluded(o, d, tMax, skip); occ != (want.Facet >= 0) {
 					t.Fatalf("ray %d: Occluded = %v, brute force hit %+v", r, occ, want)
 				}
@@ -178,11 +171,7 @@ func TestGridRefusesSlivers(t *testing.T) {
 	for range 500 {
 		o := geometry.Vec3{X: rng.Float64(), Y: rng.Float64(), Z: 0.5}
 		d := geometry.Vec3{X: rng.NormFloat64(), Y: rng.NormFloat64(), Z: rng.NormFloat64()}
-		got := tree.Intersect(o, d, math.Inf(1), -1)
-		want := bruteForce(m.Vertices, m.Facets, o, d, math.Inf(1), -1)
-		if got.Facet != want.Facet && got.T != want.T {
-			t.Fatalf("Intersect(%v, %v) = %+v, brute force %+v", o, d, got, want)
-		}
+		sameHit(t, tree, m.Vertices, m.Facets, o, d, math.Inf(1), -1)
 	}
 }
 

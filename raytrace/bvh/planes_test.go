@@ -79,11 +79,7 @@ func TestPlaneRunsAgainstBruteForce(t *testing.T) {
 	for range 3000 {
 		o := geometry.Vec3{X: rng.Float64(), Y: rng.Float64(), Z: rng.Float64()}
 		d := geometry.Vec3{X: rng.NormFloat64(), Y: rng.NormFloat64(), Z: rng.NormFloat64()}
-		got := tree.Intersect(o, d, math.Inf(1), -1)
-		want := bruteForce(m.Vertices, m.Facets, o, d, math.Inf(1), -1)
-		if got.Facet != want.Facet && got.T != want.T {
-			t.Fatalf("Intersect(%v, %v) = %+v, brute force %+v", o, d, got, want)
-		}
+		sameHit(t, tree, m.Vertices, m.Facets, o, d, math.Inf(1), -1)
 	}
 }
 
@@ -129,10 +125,6 @@ func TestManyPlaneRuns(t *testing.T) {
 	for range 100 {
 		o := geometry.Vec3{X: rng.Float64(), Y: rng.Float64(), Z: rng.Float64()}
 		d := geometry.Vec3{X: rng.NormFloat64(), Y: rng.NormFloat64(), Z: rng.NormFloat64()}
-		got := tree.Intersect(o, d, math.Inf(1), -1)
-		want := bruteForce(v, f, o, d, math.Inf(1), -1)
-		if got.Facet != want.Facet && got.T != want.T {
-			t.Fatalf("Intersect(%v, %v) = %+v, brute force %+v", o, d, got, want)
-		}
+		sameHit(t, tree, v, f, o, d, math.Inf(1), -1)
 	}
 }
