@@ -100,13 +100,13 @@ func gridAxis(ps []prim) int {
 func (b *builder) addGrid(lo, hi, k int) int32 {
 	ps := b.prims[lo:hi]
 	u, v := (k+1)%3, (k+2)%3
-	var run box = empty
+	run := empty
 	for i := range ps {
 		run.grow(&ps[i].b)
 	}
 	w := float64(run.hi[u]) - float64(run.lo[u])
 	h := float64(run.hi[v]) - float64(run.lo[v])
-	target := max(1, cellsPerFacet*float64(len(ps)))
+	target := max(1, math.Round(cellsPerFacet*float64(len(ps))))
 	nu, nv := 1.0, 1.0
 	switch {
 	case w > 0 && h > 0:
@@ -140,7 +140,7 @@ func (b *builder) addGrid(lo, hi, k int) int32 {
 		i0, i1, j0, j1 := span(&ps[i])
 		refs += int(i1-i0+1) * int(j1-j0+1)
 	}
-	if refs > maxRefsPerFacet*len(ps) {
+	if refs > maxRefsPerFacet*len(ps) || len(b.cellTris)+refs > math.MaxInt32 {
 		return -1
 	}
 	ncell := int(g.nu) * int(g.nv)
