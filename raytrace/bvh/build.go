@@ -163,6 +163,13 @@ func (t *Tree) gather(v32 [][3]float32, f [][3]int32, prims []prim) {
 	}
 }
 
+// setBounds stores b as the node's box.
+func (nd *treeNode) setBounds(b *box) {
+	for k := range 3 {
+		nd.Bounds[k], nd.Bounds[k+3] = b.lo[k], b.hi[k]
+	}
+}
+
 // build fills (*nodes)[me] with the binary subtree over prims[lo:hi]. The
 // two children of an inner node are appended side by side (Offset and
 // Offset+1), pairs in depth-first order; widen reads this tree once, so its
@@ -175,9 +182,7 @@ func (t *Tree) gather(v32 [][3]float32, f [][3]int32, prims []prim) {
 func (b *builder) build(nodes *[]treeNode, me, lo, hi, depth int, bounds box) {
 	ps := b.prims[lo:hi]
 	nd := &(*nodes)[me]
-	for k := range 3 {
-		nd.Bounds[k], nd.Bounds[k+3] = bounds.lo[k], bounds.hi[k]
-	}
+	nd.setBounds(&bounds)
 	n := hi - lo
 	if n == 1 {
 		nd.Offset, nd.Count = int32(lo), 1

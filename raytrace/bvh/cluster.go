@@ -155,9 +155,7 @@ func (b *builder) buildClusters(nodes *[]treeNode, me int, items []item, depth i
 		return
 	}
 	nd := &(*nodes)[me]
-	for k := range 3 {
-		nd.Bounds[k], nd.Bounds[k+3] = bounds.lo[k], bounds.hi[k]
-	}
+	nd.setBounds(&bounds)
 	mid, axis, sd := -1, 0, sides{}
 	if depth < clusterMaxDepth {
 		mid, axis, sd = sahItems(items)

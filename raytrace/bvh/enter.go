@@ -15,7 +15,7 @@ import (
 // function per child is not inlined) so their loads and compares
 // interleave.
 func (l *lane) enter4(p unsafe.Pointer) (k0, k1, k2, k3 int64) {
-	ox, oy, oz := l.ox, l.oy, l.oz
+	ox, oy, oz := l.o3[0], l.o3[1], l.o3[2]
 	ix, iy, iz, fx, fy, fz := l.ix, l.iy, l.iz, l.fx, l.fy, l.fz
 	nx, ny, nz, mx, my, mz := l.nx, l.ny, l.nz, l.mx, l.my, l.mz
 	p1, p2, p3 := unsafe.Add(p, 4), unsafe.Add(p, 8), unsafe.Add(p, 12)

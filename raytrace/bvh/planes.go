@@ -137,9 +137,7 @@ func (b *builder) buildItems(nodes *[]treeNode, me int, items []item, depth int)
 	if len(items) == 1 {
 		if g := items[0].grid; g >= 0 {
 			nd := &(*nodes)[me]
-			for k := range 3 {
-				nd.Bounds[k], nd.Bounds[k+3] = bounds.lo[k], bounds.hi[k]
-			}
+			nd.setBounds(&bounds)
 			nd.Offset, nd.Count = g, gridCount
 			return
 		}
@@ -147,9 +145,7 @@ func (b *builder) buildItems(nodes *[]treeNode, me int, items []item, depth int)
 		return
 	}
 	nd := &(*nodes)[me]
-	for k := range 3 {
-		nd.Bounds[k], nd.Bounds[k+3] = bounds.lo[k], bounds.hi[k]
-	}
+	nd.setBounds(&bounds)
 	lo, hi := [3]float64{math.Inf(1), math.Inf(1), math.Inf(1)}, [3]float64{math.Inf(-1), math.Inf(-1), math.Inf(-1)}
 	for i := range items {
 		for k := range 3 {

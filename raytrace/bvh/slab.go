@@ -37,7 +37,6 @@ var farScale = 1 + 2*4*0x1p-53/(1-4*0x1p-53)
 // distances), and the byte offsets in a wideNode of the near and far plane
 // on each axis (of its first child; child c is 4c bytes on).
 func (l *lane) aim(o, d geometry.Vec3, tMax float64) {
-	l.ox, l.oy, l.oz = o.X, o.Y, o.Z
 	l.o3, l.d3 = [3]float64{o.X, o.Y, o.Z}, [3]float64{d.X, d.Y, d.Z}
 	l.ix, l.iy, l.iz = inverse(d.X), inverse(d.Y), inverse(d.Z)
 	l.fx, l.fy, l.fz = l.ix*farScale, l.iy*farScale, l.iz*farScale

@@ -69,20 +69,20 @@ type Batch struct {
 }
 
 type lane struct {
-	ox, oy, oz, ix, iy, iz, fx, fy, fz float64
-	o3, d3                             [3]float64 // origin and direction, indexed by axis (plane grids)
-	pu, pv, pe                         float64    // a grid visit's crossing point and its slack
-	pg                                 *planeGrid
-	hi                                 int32   // a grid visit's end of the cell's list
-	nx, ny, nz, mx, my, mz             uintptr // byte offsets of the slab planes in a treeNode
-	sh                                 geometry.Shear
-	tMax                               float64
-	tMaxKey                            int64
-	hit                                Hit
-	skip, cur, count, q                int32 // cur: the wide node, or first triangle where count > 0
-	sp                                 int
-	anyHit                             bool // stop at the first hit (Occluded)
-	stack                              [stackSize]stackEntry
+	o3, d3                 [3]float64 // origin and direction, indexed by axis
+	ix, iy, iz, fx, fy, fz float64
+	pu, pv, pe             float64 // a grid visit's crossing point and its slack
+	pg                     *planeGrid
+	hi                     int32   // a grid visit's end of the cell's list
+	nx, ny, nz, mx, my, mz uintptr // byte offsets of the slab planes in a treeNode
+	sh                     geometry.Shear
+	tMax                   float64
+	tMaxKey                int64
+	hit                    Hit
+	skip, cur, count, q    int32 // cur: the wide node, or first triangle where count > 0
+	sp                     int
+	anyHit                 bool // stop at the first hit (Occluded)
+	stack                  [stackSize]stackEntry
 }
 
 // IntersectBatch stores in hits[i] the closest hit of qs[i], exactly as
@@ -149,7 +149,9 @@ func (t *Tree) startLane(l *lane, q *Query) bool {
 
 // fetchAhead starts loading what visiting a child reads: both cache lines
 // of a wide node, or a leaf's triangles (their first and last cache line;
-// leaves seldom span more than two).
+// leaves seldom span more than two). For a plane grid's slot it loads two
+// unrelated lines, which is harmless (a prefetch never faults) and cheaper
+// than a test; the grid visit prefetches its own data (grid.go).
 func (t *Tree) fetchAhead(child, count int32) {
 	fetchChild(child, count, unsafe.SliceData(t.nodes), unsafe.SliceData(t.tris))
 }
